@@ -1,0 +1,27 @@
+"""Rotational line engine: levels, line strengths, intensities.
+
+Pure numpy/scipy; nothing here imports Django.  Entry points:
+
+>>> from planner.engine import Species, State, PredictionRequest, predict
+"""
+
+from .linelist import LINE_COLUMNS, LineTable, Prediction, merge
+from .predict import EngineLimitError, predict, predict_many
+from .request import PredictionRequest
+from .species import SpeciesError, Species, SpinWeights, State, allowed_parameters
+
+__all__ = [
+    "LINE_COLUMNS",
+    "LineTable",
+    "Prediction",
+    "merge",
+    "EngineLimitError",
+    "predict",
+    "predict_many",
+    "PredictionRequest",
+    "SpeciesError",
+    "Species",
+    "SpinWeights",
+    "State",
+    "allowed_parameters",
+]

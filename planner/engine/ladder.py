@@ -1,0 +1,150 @@
+"""Climb the J ladder of a species until Q(T) and the line list are complete.
+
+Levels are solved J by J.  The climb of a state stops at the first J past the
+Boltzmann peak where both
+
+* the levels of that J add less than ``Q_TOLERANCE`` of the partition sum so
+  far (the terms fall faster than geometrically beyond the peak), and
+* no line with a lower level in that J can reach the intensity floor: by the
+  sum rule S_g ≤ 2J+1, so I ≤ 4.16×10⁻⁵ · g_max · (2J+1) μ_max² ·
+  e^(−E_min(J)/kT) · ν_max (1 − e^(−hν_max/kT)) / Q, which falls with J.
+
+The floor is the request's absolute floor or its relative floor times the
+largest such bound met so far, whichever is higher.  Both tests are
+conservative while the climb goes on (Q only grows).  A request that would
+climb past the engine's hard cap is refused with :class:`EngineLimitError`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .constants import INTENSITY_PREFACTOR, MHZ_PER_CM1, MHZ_PER_K
+from .labels import spin_symmetry_even
+from .levels import JLevels, solver_for
+from .request import ASYMMETRIC_J_CAP, CLOSED_FORM_J_CAP, PredictionRequest
+from .species import Species, State
+
+#: A J whose levels add less than this fraction of Q(T) ends the climb.
+Q_TOLERANCE = 1e-12
+
+
+class EngineLimitError(ValueError):
+    """A request would need more levels than the engine's hard J cap allows."""
+
+
+@dataclass
+class StateLadder:
+    """Levels of one state up to ``j_max``, flattened, with per-J pieces kept."""
+
+    state: State
+    parameter_names: tuple[str, ...]
+    vibrational_mhz: float
+    rungs: list[JLevels] = field(default_factory=list)
+    spin_weights: list[np.ndarray] = field(default_factory=list)
+    partition_sum: float = 0.0
+    truncated: bool = False
+
+    @property
+    def j_max(self) -> int:
+        return self.rungs[-1].j
+
+    def offsets(self) -> np.ndarray:
+        """Index of the first level of each J in the flattened arrays."""
+        return np.concatenate([[0], np.cumsum([len(r.energies_mhz) for r in self.rungs])])
+
+    def flat(self, name: str) -> np.ndarray:
+        return np.concatenate([getattr(r, name) for r in self.rungs])
+
+    def flat_j(self) -> np.ndarray:
+        return np.concatenate([np.full(len(r.energies_mhz), r.j) for r in self.rungs])
+
+    def flat_energies(self) -> np.ndarray:
+        """Level energies above the species' lowest level [MHz] (vibrational origin included)."""
+        return self.vibrational_mhz + self.flat("energies_mhz")
+
+
+def level_spin_weights(species: Species, rung: JLevels) -> np.ndarray:
+    """Nuclear-spin weight g_I of every level of one J (1 when none declared)."""
+    weights = species.spin_weights
+    if weights is None:
+        return np.ones(len(rung.energies_mhz))
+    if weights.axis == "C3":
+        even = rung.ka % 3 == 0
+    else:
+        even = spin_symmetry_even(rung.ka, rung.kc, weights.axis)
+    return np.where(even, weights.even, weights.odd)
+
+
+def j_cap_for(species: Species, request: PredictionRequest) -> int:
+    cap = ASYMMETRIC_J_CAP if species.rotor == "asymmetric" else CLOSED_FORM_J_CAP
+    return min(cap, request.j_cap) if request.j_cap else cap
+
+
+def climb(species: Species, request: PredictionRequest) -> tuple[list[StateLadder], float, float]:
+    """Solve every state's levels as far as the request needs.
+
+    Returns the ladders, Q(T) and the effective intensity floor [nm² MHz].
+    """
+    kt_mhz = request.temperature_k * MHZ_PER_K
+    mu_max2 = max(mu * mu for mu in species.dipole_debye)
+    nu = request.fmax_mhz
+    window_factor = nu * -np.expm1(-nu / kt_mhz)
+    k_degeneracy = 1.0 if species.rotor in ("linear", "asymmetric") else 2.0
+    g_max = k_degeneracy * (max(species.spin_weights.even, species.spin_weights.odd) if species.spin_weights else 1.0)
+    hard_cap = ASYMMETRIC_J_CAP if species.rotor == "asymmetric" else CLOSED_FORM_J_CAP
+    cap = j_cap_for(species, request)
+    origin_cm1 = min(s.energy_cm1 for s in species.states)
+
+    partition = 0.0
+    bound_max = 0.0
+    ladders = []
+    for state in sorted(species.states, key=lambda s: s.energy_cm1):
+        solver = solver_for(species, state)
+        ladder = StateLadder(state, tuple(solver.parameter_names), (state.energy_cm1 - origin_cm1) * MHZ_PER_CM1)
+        previous_term = previous_bound = previous_low = None
+        j = 0
+        while True:
+            rung = solver.solve(j)
+            weights = level_spin_weights(species, rung)
+            energies = ladder.vibrational_mhz + rung.energies_mhz
+            term = float(np.sum(weights * rung.k_degeneracy * (2 * j + 1) * np.exp(-energies / kt_mhz)))
+            ladder.rungs.append(rung)
+            ladder.spin_weights.append(weights)
+            ladder.partition_sum += term
+            partition += term
+            low = float(energies.min())
+            if previous_low is not None and low < previous_low:
+                raise EngineLimitError(
+                    f"{species.name} ({state.label}): the lowest level of J={j} lies below that of J={j - 1}; "
+                    "the centrifugal-distortion constants give falling energies there, so the series has broken "
+                    "down. Lower the temperature or check the distortion constants."
+                )
+            bound = INTENSITY_PREFACTOR * g_max * (2 * j + 1) * mu_max2 * np.exp(-low / kt_mhz) * window_factor
+            bound /= partition
+            bound_max = max(bound_max, bound)
+            floor = max(request.min_intensity_nm2mhz, request.relative_floor * bound_max)
+            past_peak = previous_term is not None and term < previous_term and bound < previous_bound
+            if past_peak and term < Q_TOLERANCE * partition and bound < floor:
+                break
+            if j >= cap:
+                ladder.truncated = True
+                if cap >= hard_cap:
+                    raise EngineLimitError(
+                        f"{species.name} ({state.label}) at {request.temperature_k:g} K needs levels above "
+                        f"J = {hard_cap}, the engine's limit for a {species.rotor} rotor. Lower the temperature, "
+                        "raise the intensity floor, or narrow the window."
+                    )
+                break
+            previous_term, previous_bound, previous_low = term, bound, low
+            j += 1
+        ladders.append(ladder)
+    floor = max(request.min_intensity_nm2mhz, request.relative_floor * bound_max)
+    return ladders, partition, floor
+
+
+def energies_cm1_and_k(energies_mhz: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Energies [MHz] → ([cm⁻¹], [K])."""
+    return energies_mhz / MHZ_PER_CM1, energies_mhz / MHZ_PER_K

@@ -1,0 +1,168 @@
+"""Rotational levels of one state, J by J, with labels and ∂E/∂p.
+
+Each rotor kind has a solver whose ``solve(j)`` returns a :class:`JLevels`:
+the levels of one J with energies [MHz], labels, K degeneracy and the
+derivative of every energy with respect to every constant (Hellmann–Feynman
+for the asymmetric top, the closed-form basis functions otherwise).  The
+asymmetric solver also keeps each Wang block's eigenvectors for the line
+strengths.
+
+References
+----------
+[1] W. Gordy and R. L. Cook, *Microwave Molecular Spectra*, 3rd ed., Wiley 1984,
+    Eqs. for linear molecules and symmetric tops in Chs. 2 and 8.
+[2] R. P. Feynman, Phys. Rev. 56, 340 (1939) (∂E/∂p = ⟨ψ|∂H/∂p|ψ⟩).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from . import hamiltonian
+from .labels import block_labels
+from .species import LINEAR_PARAMETERS, OBLATE_PARAMETERS, PROLATE_PARAMETERS, State
+
+
+@dataclass
+class BlockSolution:
+    """Eigen-solution of one Wang block: energies ascending, eigenvectors as columns."""
+
+    j: int
+    parity: int
+    sign: int
+    k_values: np.ndarray
+    energies_mhz: np.ndarray
+    vectors: np.ndarray
+    first_level: int = 0  # index of the block's first level within its JLevels
+
+
+@dataclass
+class JLevels:
+    """All levels of one J of one state (rotational energies, no vibrational offset)."""
+
+    j: int
+    ka: np.ndarray  # K for symmetric tops, −1 when undefined
+    kc: np.ndarray  # −1 when undefined
+    energies_mhz: np.ndarray
+    k_degeneracy: np.ndarray  # 2 for the ±K pair of a symmetric top, else 1
+    derivatives: np.ndarray  # (n_levels, n_params) ∂E/∂p [MHz per unit of p]
+    blocks: list[BlockSolution] = field(default_factory=list)
+
+    @property
+    def lowest_mhz(self) -> float:
+        return float(self.energies_mhz.min())
+
+
+class LinearSolver:
+    """E(J) = B x − D x² + H x³, x = J(J+1) [MHz] (Gordy & Cook 1984, Ch. 2)."""
+
+    parameter_names = LINEAR_PARAMETERS
+
+    def __init__(self, state: State):
+        self.values = np.array([state.value(p) for p in self.parameter_names])
+
+    def solve(self, j: int) -> JLevels:
+        x = float(j * (j + 1))
+        basis = np.array([[x, -(x**2), x**3]])  # E = B x − D x² + H x³
+        return JLevels(
+            j=j,
+            ka=np.array([-1]),
+            kc=np.array([-1]),
+            energies_mhz=basis @ self.values,
+            k_degeneracy=np.array([1.0]),
+            derivatives=basis,
+        )
+
+
+class SymmetricSolver:
+    """Closed-form symmetric-top levels E(J, K) [MHz] for K = 0..J.
+
+    Prolate: E = B x + (A − B) K² − DJ x² − DJK x K² − DK K⁴ + HJ x³ + HJK x² K²
+    + HKJ x K⁴ + HK K⁶; oblate: C in place of A (Gordy & Cook 1984, Ch. 8).
+    """
+
+    def __init__(self, state: State, oblate: bool):
+        self.parameter_names = OBLATE_PARAMETERS if oblate else PROLATE_PARAMETERS
+        self.values = np.array([state.value(p) for p in self.parameter_names])
+
+    def solve(self, j: int) -> JLevels:
+        x = float(j * (j + 1))
+        k2 = np.arange(j + 1, dtype=float) ** 2
+        ones = np.ones_like(k2)
+        # Columns follow parameter_names: A|C, B, DJ, DJK, DK, HJ, HJK, HKJ, HK.
+        basis = np.column_stack(
+            [k2, x * ones - k2, -(x**2) * ones, -x * k2, -(k2**2), x**3 * ones, x**2 * k2, x * k2**2, k2**3]
+        )
+        k = np.arange(j + 1)
+        return JLevels(
+            j=j,
+            ka=k,
+            kc=np.full(j + 1, -1),
+            energies_mhz=basis @ self.values,
+            k_degeneracy=np.where(k > 0, 2.0, 1.0),
+            derivatives=basis,
+        )
+
+
+class AsymmetricSolver:
+    """Watson A- or S-reduced Hamiltonian diagonalised block by block (see hamiltonian.py)."""
+
+    def __init__(self, state: State, reduction: str, representation: str):
+        self.reduction = reduction
+        self.representation = representation
+        self.parameter_names = hamiltonian.parameter_names(reduction)
+        self.values = np.array([state.value(p) for p in self.parameter_names])
+
+    def block_matrices(self, j: int):
+        """(block, bands, dense H) for each Wang block of J."""
+        elements = hamiltonian.full_basis_elements(j, self.reduction, self.representation)
+        for block in hamiltonian.wang_blocks(j):
+            bands = hamiltonian.wang_bands(block, elements)
+            yield block, bands, hamiltonian.dense_from_bands(np.tensordot(self.values, bands, axes=1))
+
+    def solve(self, j: int) -> JLevels:
+        kas, kcs, energies, derivatives, solutions = [], [], [], [], []
+        first = 0
+        for block, bands, matrix in self.block_matrices(j):
+            values, vectors = np.linalg.eigh(matrix)
+            ka, kc = block_labels(j, block.parity, block.sign, self.representation)
+            solutions.append(BlockSolution(j, block.parity, block.sign, block.k_values, values, vectors, first))
+            kas.append(ka)
+            kcs.append(kc)
+            energies.append(values)
+            derivatives.append(_expectation_values(bands, vectors))
+            first += len(values)
+        return JLevels(
+            j=j,
+            ka=np.concatenate(kas),
+            kc=np.concatenate(kcs),
+            energies_mhz=np.concatenate(energies),
+            k_degeneracy=np.ones(first),
+            derivatives=np.concatenate(derivatives),
+            blocks=solutions,
+        )
+
+
+def _expectation_values(bands: np.ndarray, vectors: np.ndarray) -> np.ndarray:
+    """⟨v_k|O_p|v_k⟩ for every eigenvector k and operator p → (n_levels, n_params).
+
+    Uses the band structure: Σ_m (2 − δ_m0) Σ_i O_p[i, i+m] v_i v_(i+m).
+    """
+    n = vectors.shape[0]
+    result = bands[:, 0, :] @ (vectors * vectors)
+    for m in range(1, min(bands.shape[1], n)):
+        result += 2.0 * bands[:, m, : n - m] @ (vectors[: n - m] * vectors[m:])
+    return result.T
+
+
+def solver_for(species, state: State):
+    """The level solver for one state of a species."""
+    if species.rotor == "linear":
+        return LinearSolver(state)
+    if species.rotor == "symmetric-prolate":
+        return SymmetricSolver(state, oblate=False)
+    if species.rotor == "symmetric-oblate":
+        return SymmetricSolver(state, oblate=True)
+    return AsymmetricSolver(state, species.reduction, species.representation)

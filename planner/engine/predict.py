@@ -1,0 +1,117 @@
+"""Top level of the engine: one species and one request in, a Prediction out."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .constants import MHZ_PER_CM1, MHZ_PER_K
+from .intensity import doppler_fwhm, einstein_a, integrated_intensity
+from .ladder import EngineLimitError, StateLadder, climb
+from .linelist import LINE_COLUMNS, LineTable, Prediction, merge
+from .request import PredictionRequest
+from .species import Species
+from .transitions import TransitionSet, asymmetric_transitions, closed_form_transitions
+
+__all__ = ["EngineLimitError", "predict", "predict_many"]
+
+AXIS_INDEX = {"a": 0, "b": 1, "c": 2}
+
+
+def predict(species: Species, request: PredictionRequest) -> Prediction:
+    """Every rotational line of ``species`` in the request's window, above its floor.
+
+    Raises :class:`EngineLimitError` when the temperature needs levels past
+    the engine's hard J cap.
+    """
+    prediction = Prediction(LineTable.empty(), request.temperature_k, request.fmin_mhz, request.fmax_mhz)
+    if not species.has_dipole:
+        prediction.messages.append(
+            f"{species.name} has no permanent dipole moment (μa = μb = μc = 0), so it has no rotational lines."
+        )
+        return prediction
+    ladders, partition, floor = climb(species, request)
+    prediction.partition_function[species.name] = partition
+    prediction.j_max[species.name] = max(ladder.j_max for ladder in ladders)
+    tables = [_state_lines(species, ladder, request, partition) for ladder in ladders]
+    lines = LineTable.concatenate(tables)
+    lines = lines.take(lines["intensity_nm2mhz"] >= floor)
+    prediction.lines = lines
+    if any(ladder.truncated for ladder in ladders):
+        prediction.messages.append(
+            f"{species.name}: levels stop at J = {prediction.j_max[species.name]} as requested; "
+            "Q(T) and the line list leave out higher levels."
+        )
+    if not len(lines):
+        prediction.messages.append(
+            f"{species.name} has no lines between {request.fmin_mhz:g} and {request.fmax_mhz:g} MHz "
+            f"above {floor:.3g} nm² MHz at {request.temperature_k:g} K."
+        )
+    return prediction
+
+
+def predict_many(species_list, request: PredictionRequest) -> Prediction:
+    """Predict several species for the same request, lines merged by frequency."""
+    return merge([predict(s, request) for s in species_list])
+
+
+def _state_lines(species: Species, ladder: StateLadder, request: PredictionRequest, partition: float) -> LineTable:
+    if species.rotor == "asymmetric":
+        found = asymmetric_transitions(
+            ladder, species.dipole_debye, species.representation, request.fmin_mhz, request.fmax_mhz
+        )
+    else:
+        axis = "c" if species.rotor == "symmetric-oblate" else "a"
+        found = closed_form_transitions(ladder, axis, request.fmin_mhz, request.fmax_mhz)
+    return _line_table(species, ladder, found, request, partition)
+
+
+def _line_table(
+    species: Species, ladder: StateLadder, found: TransitionSet, request: PredictionRequest, partition: float
+) -> LineTable:
+    energy = ladder.flat_energies()
+    spin = np.concatenate(ladder.spin_weights)
+    # A line exists only between levels of the same nuclear-spin species.
+    same_spin = (spin[found.lower] == spin[found.upper]) & (spin[found.lower] > 0)
+    lo, up = found.lower[same_spin], found.upper[same_spin]
+    strength, axis = found.strength[same_spin], found.axis[same_spin]
+    if not len(lo):
+        return LineTable.empty()
+
+    j = ladder.flat_j()
+    ka, kc = ladder.flat("ka"), ladder.flat("kc")
+    k_degeneracy = ladder.flat("k_degeneracy")
+    derivatives = np.concatenate([r.derivatives for r in ladder.rungs])
+    sigma = np.array([ladder.state.sigma(p) for p in ladder.parameter_names])
+
+    frequency = energy[up] - energy[lo]
+    mu2 = np.array(species.dipole_debye) ** 2
+    s_mu2 = strength * mu2[[AXIS_INDEX[x] for x in axis]]
+    weight = spin[lo] * k_degeneracy[lo]
+    # Uncorrelated propagation: σν² = Σ_p (∂ν/∂p · σ_p)², ∂ν/∂p = ∂E_u/∂p − ∂E_l/∂p.
+    sigma_mhz = np.sqrt((((derivatives[up] - derivatives[lo]) * sigma) ** 2).sum(axis=1))
+    n = len(lo)
+    columns = {
+        "species": np.full(n, species.name, dtype=object),
+        "state": np.full(n, ladder.state.label, dtype=object),
+        "frequency_mhz": frequency,
+        "sigma_mhz": sigma_mhz,
+        "j_up": j[up],
+        "ka_up": ka[up],
+        "kc_up": kc[up],
+        "j_lo": j[lo],
+        "ka_lo": ka[lo],
+        "kc_lo": kc[lo],
+        "dipole_type": axis.astype(object),
+        "el_cm1": energy[lo] / MHZ_PER_CM1,
+        "eu_cm1": energy[up] / MHZ_PER_CM1,
+        "el_k": energy[lo] / MHZ_PER_K,
+        "eu_k": energy[up] / MHZ_PER_K,
+        "line_strength": strength,
+        "s_mu2_d2": s_mu2,
+        "spin_weight": spin[lo].astype(float),
+        "einstein_a_s": einstein_a(frequency, s_mu2, j[up]),
+        "intensity_nm2mhz": integrated_intensity(frequency, weight * s_mu2, energy[lo], request.temperature_k, partition),
+        "doppler_fwhm_mhz": doppler_fwhm(frequency, request.temperature_k, species.mass_amu),
+    }
+    assert list(columns) == list(LINE_COLUMNS)
+    return LineTable(columns)
