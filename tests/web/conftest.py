@@ -1,0 +1,171 @@
+"""Fixtures for the web tests: the demo catalogue, small catalogues written on the spot, queries."""
+
+from __future__ import annotations
+
+import json
+from html.parser import HTMLParser
+
+import pytest
+
+from planner.catalogue_file import DEMO_CATALOGUE_PATH, load_catalogue
+from planner.engine import PredictionRequest, predict
+
+#: A window and temperature small enough for quick tests (common practice, no source:
+#: a centimetre/millimetre-wave window at a cold-ish temperature).
+TEST_FMIN_MHZ = 0.0
+TEST_FMAX_MHZ = 120_000.0
+TEST_TEMPERATURE_K = 50.0
+
+
+def catalogue_document(*entries: dict) -> dict:
+    """A catalogue-file document (docs/catalogue-format.md) holding ``entries``."""
+    return {"format": "linecast-catalogue", "version": 1, "species": list(entries)}
+
+
+#: Carbon dioxide: no permanent dipole, so no rotational lines.
+#: B from memory (about 11 698 MHz for 12C16O2); the value does not matter for the test.
+CO2_ENTRY = {
+    "name": "CO2",
+    "formula": "CO2",
+    "rotor": "linear",
+    "dipole_debye": {"a": 0.0},
+    "states": [{"label": "v=0", "energy_cm1": 0.0, "constants_mhz": {"B": [11698.0, 0.0]}}],
+}
+
+#: Two entries that break rules: a negative B and an unknown rotor kind.
+BROKEN_ENTRIES = (
+    {
+        "name": "NegativeB",
+        "formula": "CO",
+        "rotor": "linear",
+        "dipole_debye": {"a": 0.1},
+        "states": [{"label": "v=0", "energy_cm1": 0.0, "constants_mhz": {"B": [-57000.0, 0.0]}}],
+    },
+    {
+        "name": "Wobbly",
+        "formula": "OCS",
+        "rotor": "wobbly",
+        "dipole_debye": {"a": 0.7},
+        "states": [{"label": "v=0", "energy_cm1": 0.0, "constants_mhz": {"B": [6000.0, 0.0]}}],
+    },
+)
+
+
+@pytest.fixture(scope="session")
+def demo_species():
+    return load_catalogue(DEMO_CATALOGUE_PATH)
+
+
+@pytest.fixture(scope="session")
+def test_request():
+    return PredictionRequest(fmin_mhz=TEST_FMIN_MHZ, fmax_mhz=TEST_FMAX_MHZ, temperature_k=TEST_TEMPERATURE_K)
+
+
+#: Lines a demo species needs in the test window to exercise ordering and truncation.
+MIN_TEST_LINES = 5
+
+
+@pytest.fixture(scope="session")
+def demo_with_lines(demo_species, test_request):
+    """(species, prediction) for the first demo species with a few lines in the test window."""
+    for species in demo_species:
+        if species.has_dipole:
+            prediction = predict(species, test_request)
+            if len(prediction.lines) >= MIN_TEST_LINES:
+                return species, prediction
+    pytest.fail("no demo species has enough lines in the test window; the demo catalogue or the engine changed")
+
+
+@pytest.fixture
+def write_catalogue(tmp_path):
+    """Write a catalogue document to a file and return its path."""
+
+    def write(document: dict, name: str = "catalogue.json"):
+        path = tmp_path / name
+        path.write_text(json.dumps(document), encoding="utf-8")
+        return path
+
+    return write
+
+
+@pytest.fixture
+def use_catalogue(settings, write_catalogue):
+    """Point the page at a catalogue made of ``entries`` for one test."""
+
+    def use(*entries: dict):
+        settings.LINECAST_CATALOGUE_FILE = write_catalogue(catalogue_document(*entries))
+        return settings.LINECAST_CATALOGUE_FILE
+
+    return use
+
+
+@pytest.fixture
+def page_query():
+    """Query string of the spectrum form for one species, test window unless overridden."""
+
+    def query(species_name: str, **overrides) -> dict:
+        defaults = {
+            "species": species_name,
+            "temperature_k": TEST_TEMPERATURE_K,
+            "fmin_mhz": TEST_FMIN_MHZ,
+            "fmax_mhz": TEST_FMAX_MHZ,
+            "min_intensity_nm2mhz": "",
+        }
+        return defaults | overrides
+
+    return query
+
+
+@pytest.fixture
+def co2_entry():
+    return json.loads(json.dumps(CO2_ENTRY))
+
+
+@pytest.fixture
+def broken_entries():
+    return json.loads(json.dumps(BROKEN_ENTRIES))
+
+
+class _TableParser(HTMLParser):
+    """Collects the text of every cell of the table with id ``line-table``: header rows and body rows."""
+
+    def __init__(self):
+        super().__init__()
+        self.in_table = False
+        self.section = None
+        self.cell = None
+        self.head: list[list[str]] = []
+        self.body: list[list[str]] = []
+
+    def handle_starttag(self, tag, attrs):
+        if tag == "table" and dict(attrs).get("id") == "line-table":
+            self.in_table = True
+        elif self.in_table and tag in ("thead", "tbody"):
+            self.section = self.head if tag == "thead" else self.body
+        elif self.in_table and tag == "tr" and self.section is not None:
+            self.section.append([])
+        elif self.in_table and tag in ("td", "th"):
+            self.cell = []
+
+    def handle_endtag(self, tag):
+        if tag == "table" and self.in_table:
+            self.in_table = False
+        elif self.in_table and tag in ("td", "th") and self.cell is not None:
+            self.section[-1].append("".join(self.cell).strip())
+            self.cell = None
+
+    def handle_data(self, data):
+        if self.cell is not None:
+            self.cell.append(data)
+
+
+@pytest.fixture
+def parse_table():
+    """HTML -> (header rows, body rows) of the line table, each a list of cell texts."""
+
+    def parse(html: str):
+        parser = _TableParser()
+        parser.feed(html)
+        return parser.head, parser.body
+
+    return parse
