@@ -1,0 +1,101 @@
+"""The spectrum page and its CSV/JSON downloads.
+
+Each view binds the GET form, asks the engine for the prediction and renders
+it; an engine refusal becomes a form error, never a server error.
+"""
+
+from __future__ import annotations
+
+import io
+import re
+
+from django.http import HttpResponse, HttpResponseBadRequest, JsonResponse
+from django.shortcuts import render
+
+from planner.catalogue_file import CatalogueError
+from planner.engine import Prediction, Species, predict
+from planner.spectra.catalogue import catalogue_path, catalogue_species
+from planner.spectra.exports import prediction_csv, prediction_json
+from planner.spectra.forms import SpectrumForm
+from planner.spectra.plot import plot_data
+from planner.spectra.table import line_table
+
+
+def spectrum_page(request):
+    try:
+        form, species, prediction = _prediction_from_query(request)
+    except CatalogueError as error:
+        return _catalogue_unavailable(request, error)
+    context = {"form": form, "species": species, "prediction": prediction}
+    if prediction is not None:
+        records = prediction.records()
+        context |= {
+            "partition_function": prediction.partition_function.get(species.name),
+            "j_max": prediction.j_max.get(species.name),
+            "table": line_table(species, records),
+            "plot": plot_data(records, species.rotor),
+            "download_query": request.GET.urlencode(),
+        }
+    return render(request, "spectra/spectrum.html", context)
+
+
+def spectrum_csv(request):
+    try:
+        form, species, prediction = _prediction_from_query(request)
+    except CatalogueError as error:
+        return HttpResponse(str(error), status=503, content_type="text/plain; charset=utf-8")
+    if prediction is None:
+        return _bad_query(form)
+    buffer = io.StringIO()
+    prediction_csv(prediction, buffer)
+    response = HttpResponse(buffer.getvalue(), content_type="text/csv; charset=utf-8")
+    response["Content-Disposition"] = f'attachment; filename="{_file_stem(species, form)}.csv"'
+    return response
+
+
+def spectrum_json(request):
+    try:
+        form, species, prediction = _prediction_from_query(request)
+    except CatalogueError as error:
+        return HttpResponse(str(error), status=503, content_type="text/plain; charset=utf-8")
+    if prediction is None:
+        return _bad_query(form)
+    response = JsonResponse(prediction_json(prediction, form.request()), json_dumps_params={"allow_nan": False})
+    response["Content-Disposition"] = f'attachment; filename="{_file_stem(species, form)}.json"'
+    return response
+
+
+def _prediction_from_query(request) -> tuple[SpectrumForm, Species | None, Prediction | None]:
+    """Bind the form to the query string and predict when it is valid.
+
+    Returns the form (carrying any errors), the chosen species and the
+    prediction, the last two None when there is nothing to show.
+    """
+    species_list = catalogue_species()
+    form = SpectrumForm(request.GET or None, species_names=[s.name for s in species_list])
+    if not form.is_bound or not form.is_valid():
+        return form, None, None
+    species = next(s for s in species_list if s.name == form.cleaned_data["species"])
+    try:
+        prediction = predict(species, form.request())
+    except ValueError as error:  # includes EngineLimitError: the request needs more J than the cap
+        form.add_error(None, str(error))
+        return form, species, None
+    return form, species, prediction
+
+
+def _catalogue_unavailable(request, error: CatalogueError):
+    context = {"error": error, "path": catalogue_path()}
+    return render(request, "spectra/catalogue_error.html", context, status=503)
+
+
+def _bad_query(form: SpectrumForm):
+    lines = [f"{field or 'request'}: {message}" for field, messages in form.errors.items() for message in messages]
+    return HttpResponseBadRequest("\n".join(lines) or "no query given", content_type="text/plain; charset=utf-8")
+
+
+def _file_stem(species: Species, form: SpectrumForm) -> str:
+    """File name without extension, e.g. ``linecast-OCS-300K-0-1000000MHz``."""
+    data = form.cleaned_data
+    name = re.sub(r"[^A-Za-z0-9._+-]+", "_", species.name).strip("_") or "species"
+    return f"linecast-{name}-{data['temperature_k']:.10g}K-{data['fmin_mhz']:.10g}-{data['fmax_mhz']:.10g}MHz"

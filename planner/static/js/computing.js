@@ -1,0 +1,27 @@
+// Shows "Computing…" while the browser waits for the next page, so a long
+// prediction does not look like a dead button.  The print button lives here
+// too: one small script per page.
+(function () {
+  "use strict";
+  var form = document.getElementById("spectrum-form");
+  var note = document.getElementById("computing");
+  var button = document.getElementById("predict-button");
+  if (form && note && button) {
+    form.addEventListener("submit", function () {
+      note.hidden = false;
+      button.disabled = true;
+      document.body.classList.add("is-computing");
+    });
+    // Coming back with the browser's Back button restores the page from its
+    // cache with the note still showing; reset it.
+    window.addEventListener("pageshow", function () {
+      note.hidden = true;
+      button.disabled = false;
+      document.body.classList.remove("is-computing");
+    });
+  }
+  var printButton = document.getElementById("print-button");
+  if (printButton) {
+    printButton.addEventListener("click", function () { window.print(); });
+  }
+})();
