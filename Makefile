@@ -1,0 +1,35 @@
+# Everything a fresh clone needs: `make run` or `make test` creates the venv,
+# installs requirements.txt (again whenever it changes) and migrates.
+PYTHON ?= python3.11
+VENV := .venv
+BIN := $(VENV)/bin
+STAMP := $(VENV)/.requirements-installed
+
+.PHONY: run test lint bench migrate setup
+
+$(BIN)/python:
+	$(PYTHON) -m venv $(VENV)
+
+# The stamp is newer than requirements.txt once they are installed.
+$(STAMP): requirements.txt | $(BIN)/python
+	$(BIN)/python -m pip install --quiet --upgrade pip
+	$(BIN)/python -m pip install --quiet -r requirements.txt
+	touch $(STAMP)
+
+setup: $(STAMP)
+
+migrate: setup
+	$(BIN)/python manage.py migrate --no-input
+
+run: migrate
+	$(BIN)/python manage.py runserver 127.0.0.1:8000
+
+test: migrate
+	$(BIN)/python -m pytest
+
+lint: setup
+	$(BIN)/ruff check .
+	$(BIN)/ruff format --check .
+
+bench: setup
+	$(BIN)/python -m planner.engine.benchmark
