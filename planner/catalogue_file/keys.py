@@ -1,0 +1,24 @@
+"""Key names of the catalogue file format, shared by the reader and the writer.
+
+See docs/catalogue-format.md for their meaning and units.
+"""
+
+FORMAT_NAME = "linecast-catalogue"
+FORMAT_VERSION = 1
+
+FILE_KEYS = ("format", "version", "species")
+SPECIES_KEYS = (
+    "name", "formula", "rotor", "reduction", "representation", "mass_amu",
+    "dipole_debye", "spin_weights", "states", "source", "notes",
+)
+REQUIRED_SPECIES_KEYS = ("name", "formula", "rotor", "dipole_debye", "states")
+STATE_KEYS = ("label", "energy_cm1", "constants_mhz")
+DIPOLE_AXES = ("a", "b", "c")
+
+#: Spin-weight axis -> (file key of SpinWeights.even, file key of SpinWeights.odd).
+SPIN_WEIGHT_KEYS = {
+    "a": ("even", "odd"),
+    "b": ("even", "odd"),
+    "c": ("even", "odd"),
+    "C3": ("k_multiple_of_3", "other"),
+}

@@ -1,0 +1,288 @@
+"""One species entry of a catalogue file -> a Species, or every problem it has.
+
+The JSON shape (types, keys) is checked here; the physics rules are the
+engine's own, reached by building Species and catching SpeciesError.  Because
+the engine stops at the first broken rule, a field it rejects is reported and
+then replaced by a harmless value, and the engine is asked again, so that one
+bad field does not hide the next.
+"""
+
+from __future__ import annotations
+
+import difflib
+
+from planner.engine.species import REDUCTIONS, REPRESENTATIONS, ROTOR_KINDS, Species, SpeciesError, SpinWeights, State
+
+from .keys import DIPOLE_AXES, REQUIRED_SPECIES_KEYS, SPECIES_KEYS, SPIN_WEIGHT_KEYS, STATE_KEYS
+from .masses import mass_from_formula
+from .problems import Problem
+
+_PAIR_NEEDED = "must be [value, sigma] in MHz; a bare number is not accepted (give the 1σ too, 0 if unknown)"
+
+#: Harmless stand-ins for species-level fields, used only while asking the engine.
+_NEUTRAL = {
+    "name": "?",
+    "mass_amu": 1.0,
+    "dipole_debye": (0.0, 0.0, 0.0),
+    "spin_weights": None,
+    "reduction": "A",
+    "representation": "Ir",
+}
+
+
+class Report:
+    """Problems of one species, at most one per field (the first found is the clearest)."""
+
+    def __init__(self, species: str):
+        self.species = species
+        self.problems: list[Problem] = []
+        self._fields: set[str] = set()
+
+    def add(self, field: str, message: str) -> None:
+        if field not in self._fields:
+            self._fields.add(field)
+            self.problems.append(Problem(self.species, field, message))
+
+
+def is_number(value) -> bool:
+    """True for a JSON number (bool excluded)."""
+    return isinstance(value, (int, float)) and not isinstance(value, bool)
+
+
+def json_type(value) -> str:
+    """The JSON name of a value's type, for messages."""
+    if value is None:
+        return "null"
+    if isinstance(value, bool):
+        return "true/false"
+    if is_number(value):
+        return f"the number {value!r}"
+    if isinstance(value, str):
+        return f"the text {value!r}"
+    return "a list" if isinstance(value, (list, tuple)) else "an object"
+
+
+def check_keys(report, obj: dict, allowed: tuple[str, ...], prefix: str) -> None:
+    """Report keys not in ``allowed`` (typo protection) and keys the JSON object repeated."""
+    for key in obj:
+        if key not in allowed:
+            close = difflib.get_close_matches(str(key), allowed, n=1)
+            hint = f"did you mean {close[0]!r}? " if close else ""
+            report.add(f"{prefix}{key}", f"unknown key; {hint}allowed here: {', '.join(allowed)}")
+    for key in getattr(obj, "duplicate_keys", ()):
+        report.add(f"{prefix}{key}", "is given twice in the same object; keep only one")
+
+
+def parse_species(entry, label: str) -> tuple[Species | None, list[Problem]]:
+    """Species from one entry of the file's ``species`` list, else (None, its problems).
+
+    ``label`` names the species in problems (its name, or ``species[N]``).
+    """
+    report = Report(label)
+    if not isinstance(entry, dict):
+        report.add("entry", f"must be an object with the species' keys, got {json_type(entry)}")
+        return None, report.problems
+    check_keys(report, entry, SPECIES_KEYS, "")
+    for key in REQUIRED_SPECIES_KEYS:
+        if key not in entry:
+            report.add(key, "is required")
+    formula = _text(report, entry, "formula", None)
+    texts = {key: _text(report, entry, key, "") for key in ("source", "notes")}
+    fields = {
+        "name": _text(report, entry, "name", None),
+        "rotor": _choice(report, entry, "rotor", ROTOR_KINDS, None),
+        "reduction": _choice(report, entry, "reduction", REDUCTIONS, "A"),
+        "representation": _choice(report, entry, "representation", REPRESENTATIONS, "Ir"),
+        "mass_amu": _mass(report, entry, formula),
+        "dipole_debye": _dipole(report, entry["dipole_debye"]) if "dipole_debye" in entry else None,
+        "spin_weights": _spin_weights(report, entry["spin_weights"]) if "spin_weights" in entry else None,
+    }
+    states = _states(report, entry["states"]) if "states" in entry else []
+    if fields["rotor"] is not None:
+        _ask_engine_about_species(report, fields)
+        # the reduction picks the parameter names of an asymmetric top only
+        if fields["reduction"] is not None or fields["rotor"] != "asymmetric":
+            for index, state in enumerate(states):
+                if state is not None:
+                    _ask_engine_about_state(report, fields, state, f"states[{index}]")
+    if report.problems:
+        return None, report.problems
+    try:
+        return Species(states=tuple(states), formula=formula, **texts, **fields), []
+    except SpeciesError as error:  # a rule only the whole species shows
+        report.add(error.field, error.message)
+        return None, report.problems
+
+
+def _text(report, entry: dict, key: str, default):
+    if key not in entry:
+        return default
+    value = entry[key]
+    if not isinstance(value, str):
+        report.add(key, f"must be text, got {json_type(value)}")
+        return None
+    return value
+
+
+def _choice(report, entry: dict, key: str, choices: tuple[str, ...], default):
+    value = _text(report, entry, key, default)
+    if value is not None and value not in choices:
+        report.add(key, f"must be one of {', '.join(choices)}; got {value!r}")
+        return None
+    return value
+
+
+def _mass(report, entry: dict, formula: str | None) -> float | None:
+    """The given mass_amu [u], else the formula's; the formula must be readable either way."""
+    formula_mass = None
+    if formula is not None:
+        try:
+            formula_mass = mass_from_formula(formula)
+        except ValueError as error:
+            report.add("formula", str(error))
+    if "mass_amu" not in entry:
+        return formula_mass
+    value = entry["mass_amu"]
+    if not is_number(value):
+        report.add("mass_amu", f"must be a number [u], got {json_type(value)}")
+        return None
+    return value
+
+
+def _dipole(report, value) -> tuple[float, float, float] | None:
+    """(μa, μb, μc) [D]; missing components are 0."""
+    if not isinstance(value, dict):
+        report.add("dipole_debye", f'must be an object such as {{"a": 1.2}} [D], got {json_type(value)}')
+        return None
+    check_keys(report, value, DIPOLE_AXES, "dipole_debye.")
+    components = [value.get(axis, 0.0) for axis in DIPOLE_AXES]
+    for axis, mu in zip(DIPOLE_AXES, components):
+        if not is_number(mu):
+            report.add(f"dipole_debye.{axis}", f"must be a number [D], got {json_type(mu)}")
+    return tuple(components) if all(is_number(mu) for mu in components) else None
+
+
+def _spin_weights(report, value) -> SpinWeights | None:
+    if not isinstance(value, dict):
+        example = '{"axis": "b", "even": 1, "odd": 3}'
+        report.add("spin_weights", f"must be an object such as {example}, got {json_type(value)}")
+        return None
+    if "axis" not in value:
+        report.add("spin_weights.axis", "is required")
+        return None
+    axis = value["axis"]
+    keys = SPIN_WEIGHT_KEYS.get(axis) if isinstance(axis, str) else None
+    if keys is None:
+        expected = "'a', 'b', 'c' (C2 axis) or 'C3' (threefold axis)"
+        report.add("spin_weights.axis", f"must be {expected}, got {json_type(axis)}")
+        return None
+    check_keys(report, value, ("axis", *keys), "spin_weights.")
+    for key in keys:
+        if key not in value:
+            report.add(f"spin_weights.{key}", "is required")
+        elif not is_number(value[key]):
+            report.add(f"spin_weights.{key}", f"must be a number >= 0, got {json_type(value[key])}")
+    if not all(is_number(value.get(key)) for key in keys):
+        return None
+    try:
+        return SpinWeights(axis, value[keys[0]], value[keys[1]])
+    except SpeciesError as error:
+        # the engine names its own attributes even/odd; report the file's key names
+        engine_names = {"spin_weights.even": keys[0], "spin_weights.odd": keys[1]}
+        field = f"spin_weights.{engine_names[error.field]}" if error.field in engine_names else error.field
+        report.add(field, error.message)
+        return None
+
+
+def _states(report, value) -> list[State | None]:
+    """The states of the entry, None for an item that is not even an object.
+
+    A state with problems is still returned, with stand-ins for its bad parts,
+    so that the engine can check what is left of it; its problems are reported.
+    """
+    if not isinstance(value, list):
+        report.add("states", f"must be a list of states, got {json_type(value)}")
+        return []
+    if not value:
+        report.add("states", "at least one state is needed")
+    states = [_state(report, item, f"states[{index}]") for index, item in enumerate(value)]
+    first_use: dict[str, int] = {}
+    for index, item in enumerate(value):
+        label = item.get("label") if isinstance(item, dict) else None
+        if isinstance(label, str) and label in first_use:
+            report.add(f"states[{index}].label", f"label {label!r} is already used by states[{first_use[label]}]")
+        elif isinstance(label, str):
+            first_use[label] = index
+    return states
+
+
+def _state(report, item, where: str) -> State | None:
+    if not isinstance(item, dict):
+        report.add(where, f"must be an object with label, energy_cm1 and constants_mhz, got {json_type(item)}")
+        return None
+    check_keys(report, item, STATE_KEYS, f"{where}.")
+    for key in STATE_KEYS:
+        if key not in item:
+            report.add(f"{where}.{key}", "is required")
+    label = item.get("label", "?")
+    if not isinstance(label, str):
+        report.add(f"{where}.label", f"must be text, got {json_type(label)}")
+        label = "?"
+    energy = item.get("energy_cm1", 0.0)
+    if not is_number(energy):
+        report.add(f"{where}.energy_cm1", f"must be a number [cm^-1], got {json_type(energy)}")
+        energy = 0.0
+    constants = _constants(report, item.get("constants_mhz", {}), f"{where}.constants_mhz")
+    return State(label, energy, constants)
+
+
+def _constants(report, value, where: str) -> dict[str, tuple[float, float]]:
+    """The well-formed {NAME: (value, sigma)} pairs [MHz]; the others are reported."""
+    if not isinstance(value, dict):
+        report.add(where, f"must be an object {{NAME: [value, sigma]}} [MHz], got {json_type(value)}")
+        return {}
+    for key in getattr(value, "duplicate_keys", ()):
+        report.add(f"{where}.{key}", "is given twice in the same object; keep only one")
+    constants = {}
+    for name, pair in value.items():
+        if isinstance(pair, list) and len(pair) == 2 and all(is_number(x) for x in pair):
+            constants[name] = (pair[0], pair[1])
+        else:
+            report.add(f"{where}.{name}", _PAIR_NEEDED + ("" if is_number(pair) else f"; got {json_type(pair)}"))
+    return constants
+
+
+def _ask_engine_about_species(report, fields: dict) -> None:
+    """Every species-level rule of the engine (mass, dipole, spin weights vs rotor, ...)."""
+    # a field already found unreadable (None) is stood in for; None is a real value only for spin_weights
+    probe = {key: _NEUTRAL[key] if value is None and key != "spin_weights" else value for key, value in fields.items()}
+    for _ in range(len(_NEUTRAL) + 1):
+        try:
+            Species(**probe, states=())
+        except SpeciesError as error:
+            key = error.field.split(".")[0]
+            if key not in _NEUTRAL:  # only "states" is left: every species-level field passed
+                return
+            report.add(error.field, error.message)
+            probe[key] = _NEUTRAL[key]
+
+
+def _ask_engine_about_state(report, fields: dict, state: State, where: str) -> None:
+    """Every rule of the engine about one state, with the species-level fields made harmless."""
+    probe = dict(_NEUTRAL, rotor=fields["rotor"], reduction=fields["reduction"] or "A")
+    label, energy, constants = state.label, state.energy_cm1, dict(state.constants_mhz)
+    for _ in range(len(constants) + 3):
+        try:
+            Species(**probe, states=(State(label, energy, constants),))
+            return
+        except SpeciesError as error:
+            report.add(where + error.field.removeprefix("states[0]"), error.message)
+            part, _, name = error.field.removeprefix("states[0].").partition(".")
+            if part == "constants_mhz" and name in constants:
+                del constants[name]
+            elif part == "label":
+                label = "?"
+            elif part == "energy_cm1":
+                energy = 0.0
+            else:  # a missing constant or the A >= B >= C order: nothing to take out
+                return
