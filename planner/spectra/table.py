@@ -21,6 +21,9 @@ QUANTUM_LABELS = {
     "asymmetric": ("J", "Ka", "Kc"),
 }
 _QUANTUM_SUFFIXES = ("j", "ka", "kc")
+#: Four decimals while that keeps three significant digits, scientific below:
+#: line strengths of weak components would otherwise all read 0.0000.
+FIXED_OR_SCIENTIFIC = "fixed-or-scientific"
 
 
 @dataclass(frozen=True)
@@ -73,7 +76,7 @@ def table_columns(species: Species) -> list[Column]:
     columns += [
         Column("el_cm1", "E_l [cm⁻¹]", ".4f"),
         Column("eu_k", "E_u [K]", ".2f"),
-        Column("s_mu2_d2", "Sμ² [D²]", ".4g"),
+        Column("s_mu2_d2", "Sμ² [D²]", FIXED_OR_SCIENTIFIC),
         Column("einstein_a_s", "A [s⁻¹]", ".3e"),
         Column("intensity_nm2mhz", "Intensity [nm² MHz]", ".3e"),
     ]
@@ -84,6 +87,8 @@ def format_cell(value, number_format: str) -> str:
     """One cell's text: blank for None (undefined), the number in its format otherwise."""
     if value is None:
         return ""
+    if number_format == FIXED_OR_SCIENTIFIC and isinstance(value, int | float):
+        return format(value, ".4f" if value == 0 or abs(value) >= 0.1 else ".3e")
     if number_format and isinstance(value, int | float):
         return format(value, number_format)
     return str(value)

@@ -53,7 +53,7 @@
     return {
       margin: {l: 72, r: 16, t: 8, b: 48},
       xaxis: {title: {text: "Frequency [MHz]"}, exponentformat: "none", separatethousands: true,
-              showline: true, linecolor: "#888", ticks: "outside"},
+              showline: true, linecolor: "#888", ticks: "outside", zeroline: false},
       yaxis: {title: {text: "Intensity [nm² MHz]"}, type: logScale ? "log" : "linear",
               exponentformat: "power", showline: true, linecolor: "#888", ticks: "outside",
               rangemode: logScale ? "normal" : "tozero"},
