@@ -1,0 +1,105 @@
+"""Benchmark of the engine: ``python -m planner.engine.benchmark``.
+
+Prints the time of the full line list of an asymmetric top up to J = 100 with
+a-, b- and c-type transitions, the time of the bare eigen-solve of the same
+Wang blocks, their ratio, and the peak memory of the run.  Targets (on the
+project's 2-core machine): ≤ 0.5 s, ≤ 3× the eigen-solve, ≤ 200 MB.
+
+The molecule uses the SO2 ground-state constants (A-reduction, Ir, recalled
+from the literature, quartic terms only) with all three dipole components set
+to 1 D so that every selection rule is exercised.
+"""
+
+from __future__ import annotations
+
+import argparse
+import resource
+import time
+import tracemalloc
+
+import numpy as np
+
+from .levels import AsymmetricSolver
+from .predict import predict
+from .request import PredictionRequest
+from .species import Species, State
+
+SO2_CONSTANTS_MHZ = {
+    "A": (60778.552, 0.002),
+    "B": (10318.0735, 0.0002),
+    "C": (8799.7033, 0.0002),
+    "DeltaJ": (0.0066, 1e-6),
+    "DeltaJK": (-0.1169, 1e-5),
+    "DeltaK": (2.5907, 1e-4),
+    "deltaJ": (0.0017, 1e-7),
+    "deltaK": (0.02533, 1e-6),
+}
+
+
+def benchmark_species() -> Species:
+    return Species(
+        name="SO2 (all dipole types)",
+        rotor="asymmetric",
+        mass_amu=63.962,
+        dipole_debye=(1.0, 1.0, 1.0),
+        states=(State("v=0", 0.0, SO2_CONSTANTS_MHZ),),
+    )
+
+
+def benchmark_request(j_max: int) -> PredictionRequest:
+    # A window wide enough for every line and a floor low enough to keep them all.
+    return PredictionRequest(0.0, 2.0e7, 300.0, relative_floor=1e-15, j_cap=j_max)
+
+
+def bare_eigen_solve_seconds(species: Species, j_max: int, repeats: int) -> float:
+    """Best time of numpy.linalg.eigh over the prebuilt Wang blocks of J = 0..j_max [s]."""
+    solver = AsymmetricSolver(species.states[0], species.reduction, species.representation)
+    matrices = [matrix for j in range(j_max + 1) for _, _, matrix in solver.block_matrices(j)]
+    best = float("inf")
+    for _ in range(repeats):
+        start = time.perf_counter()
+        for matrix in matrices:
+            np.linalg.eigh(matrix)
+        best = min(best, time.perf_counter() - start)
+    return best
+
+
+def line_list_seconds(species: Species, request: PredictionRequest, repeats: int) -> tuple[float, int]:
+    best, count = float("inf"), 0
+    for _ in range(repeats):
+        start = time.perf_counter()
+        prediction = predict(species, request)
+        best = min(best, time.perf_counter() - start)
+        count = len(prediction.lines)
+    return best, count
+
+
+def main(argv=None) -> None:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--j-max", type=int, default=100, help="highest J (default 100)")
+    parser.add_argument("--repeats", type=int, default=5, help="runs per timing; the best is printed")
+    args = parser.parse_args(argv)
+
+    species = benchmark_species()
+    request = benchmark_request(args.j_max)
+    predict(species, request)  # warm caches and imports before timing
+
+    full, count = line_list_seconds(species, request, args.repeats)
+    bare = bare_eigen_solve_seconds(species, args.j_max, args.repeats)
+
+    tracemalloc.start()
+    predict(species, request)
+    _, traced_peak = tracemalloc.get_traced_memory()
+    tracemalloc.stop()
+    rss_peak_mb = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0
+
+    print(f"asymmetric top, J = 0..{args.j_max}, a/b/c-type lines: {count} lines")
+    print(f"full line list          {full * 1e3:8.1f} ms   (target <= 500 ms)")
+    print(f"bare eigen-solve        {bare * 1e3:8.1f} ms   (numpy.linalg.eigh on the same Wang blocks)")
+    print(f"ratio full / eigen      {full / bare:8.2f}      (target <= 3)")
+    print(f"peak memory of the run  {traced_peak / 2**20:8.1f} MB   (tracemalloc; target <= 200 MB)")
+    print(f"process peak RSS        {rss_peak_mb:8.1f} MB   (interpreter and libraries included)")
+
+
+if __name__ == "__main__":
+    main()
