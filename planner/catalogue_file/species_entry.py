@@ -10,6 +10,7 @@ bad field does not hide the next.
 from __future__ import annotations
 
 import difflib
+import json
 
 from planner.engine.species import REDUCTIONS, REPRESENTATIONS, ROTOR_KINDS, Species, SpeciesError, SpinWeights, State
 
@@ -17,7 +18,7 @@ from .keys import DIPOLE_AXES, REQUIRED_SPECIES_KEYS, SPECIES_KEYS, SPIN_WEIGHT_
 from .masses import mass_from_formula
 from .problems import Problem
 
-_PAIR_NEEDED = "must be [value, sigma] in MHz; a bare number is not accepted (give the 1σ too, 0 if unknown)"
+_BARE_NUMBER = "must be [value, sigma] in MHz; a bare number is not accepted (give the 1σ too, 0 if unknown)"
 
 #: Harmless stand-ins for species-level fields, used only while asking the engine.
 _NEUTRAL = {
@@ -45,8 +46,10 @@ class Report:
 
 
 def is_number(value) -> bool:
-    """True for a JSON number (bool excluded)."""
-    return isinstance(value, (int, float)) and not isinstance(value, bool)
+    """True for a JSON number that fits a float (bool excluded: JSON true is not 1)."""
+    if isinstance(value, bool):
+        return False
+    return isinstance(value, float) or (isinstance(value, int) and abs(value) < 2.0**1023)
 
 
 def json_type(value) -> str:
@@ -248,7 +251,10 @@ def _constants(report, value, where: str) -> dict[str, tuple[float, float]]:
         if isinstance(pair, list) and len(pair) == 2 and all(is_number(x) for x in pair):
             constants[name] = (pair[0], pair[1])
         else:
-            report.add(f"{where}.{name}", _PAIR_NEEDED + ("" if is_number(pair) else f"; got {json_type(pair)}"))
+            shown = json.dumps(pair, default=str)
+            shown = shown if len(shown) <= 40 else shown[:39] + "…"
+            message = _BARE_NUMBER if is_number(pair) else f"must be [value, sigma], two numbers in MHz; got {shown}"
+            report.add(f"{where}.{name}", message)
     return constants
 
 

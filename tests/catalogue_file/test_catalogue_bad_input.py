@@ -88,6 +88,7 @@ SINGLE_FAULTS = [
     (_constant(0, "B", 6081.5), "lin", "states[0].constants_mhz.B", "a bare number is not accepted"),
     (_constant(0, "B", [6081.5]), "lin", "states[0].constants_mhz.B", "[value, sigma]"),
     (_constant(0, "B", ["6081.5", 0.1]), "lin", "states[0].constants_mhz.B", "[value, sigma]"),
+    (_constant(0, "B", [True, 0.1]), "lin", "states[0].constants_mhz.B", "two numbers"),  # JSON true is not 1
     (_constant(0, "B", [6081.5, -0.1]), "lin", "states[0].constants_mhz.B", "sigma must be >= 0"),
     (_constant(0, "B", [-6081.5, 0.1]), "lin", "states[0].constants_mhz.B", "> 0 MHz"),
     (_constant(0, "A", [9000, 0.1]), "lin", "states[0].constants_mhz.A", "unknown parameter 'A'"),
