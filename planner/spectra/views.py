@@ -9,6 +9,7 @@ from __future__ import annotations
 import io
 import re
 
+from django.core.exceptions import NON_FIELD_ERRORS
 from django.http import HttpResponse, HttpResponseBadRequest, JsonResponse
 from django.shortcuts import render
 
@@ -90,7 +91,11 @@ def _catalogue_unavailable(request, error: CatalogueError):
 
 
 def _bad_query(form: SpectrumForm):
-    lines = [f"{field or 'request'}: {message}" for field, messages in form.errors.items() for message in messages]
+    lines = [
+        f"{'request' if field == NON_FIELD_ERRORS else field}: {message}"
+        for field, messages in form.errors.items()
+        for message in messages
+    ]
     return HttpResponseBadRequest("\n".join(lines) or "no query given", content_type="text/plain; charset=utf-8")
 
 

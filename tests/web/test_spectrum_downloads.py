@@ -59,3 +59,13 @@ def test_page_links_both_downloads_with_the_same_query(client, demo_with_lines, 
     query = response.wsgi_request.GET.urlencode().replace("&", "&amp;")
     assert f'href="{reverse("spectra:spectrum_csv")}?{query}"' in html
     assert f'href="{reverse("spectra:spectrum_json")}?{query}"' in html
+
+
+def test_download_refused_by_the_engine_names_the_request(client, demo_species, page_query, monkeypatch):
+    def refuse(species, request):
+        raise ValueError("the distortion series has broken down at J=117")
+
+    monkeypatch.setattr("planner.spectra.views.predict", refuse)
+    response = client.get(reverse("spectra:spectrum_json"), page_query(demo_species[0].name))
+    assert response.status_code == 400
+    assert response.content.decode() == "request: the distortion series has broken down at J=117"
