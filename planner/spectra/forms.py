@@ -20,6 +20,11 @@ DEFAULT_FMAX_MHZ = 1_000_000.0
 REQUEST_FIELDS = ("fmin_mhz", "fmax_mhz", "temperature_k", "min_intensity_nm2mhz")
 
 
+def _plain(number: float) -> str:
+    """Initial field text without a trailing '.0' (300, not 300.0)."""
+    return format(number, ".10g")
+
+
 def _positive(value: float) -> None:
     if value is not None and value <= 0:
         raise ValidationError("Must be above 0 K.")
@@ -29,20 +34,20 @@ class SpectrumForm(forms.Form):
     species = forms.ChoiceField(label="Species")
     temperature_k = forms.FloatField(
         label="Temperature [K]",
-        initial=DEFAULT_TEMPERATURE_K,
+        initial=_plain(DEFAULT_TEMPERATURE_K),
         max_value=MAX_TEMPERATURE_K,
         validators=[_positive],
         widget=forms.NumberInput(attrs={"step": "any", "min": "0"}),
     )
     fmin_mhz = forms.FloatField(
         label="From [MHz]",
-        initial=DEFAULT_FMIN_MHZ,
+        initial=_plain(DEFAULT_FMIN_MHZ),
         min_value=0.0,
         widget=forms.NumberInput(attrs={"step": "any", "min": "0"}),
     )
     fmax_mhz = forms.FloatField(
         label="To [MHz]",
-        initial=DEFAULT_FMAX_MHZ,
+        initial=_plain(DEFAULT_FMAX_MHZ),
         widget=forms.NumberInput(attrs={"step": "any", "min": "0"}),
     )
     min_intensity_nm2mhz = forms.FloatField(

@@ -95,3 +95,15 @@ def test_form_error_is_shown_next_to_the_field_in_the_browser(live_server, page)
     page.wait_for_selector("#id_temperature_k_error")
     assert page.locator(".field-temperature_k .errorlist").inner_text() == "Must be above 0 K."
     assert page.locator("#line-table").count() == 0
+
+
+def test_computing_note_shows_once_the_form_is_submitted(live_server, page):
+    page.goto(live_server.url + "/")
+    # Stop the navigation after the page's own submit handler has run, so the
+    # page stays up to be looked at (listeners run in the order they were added).
+    page.evaluate("document.getElementById('spectrum-form').addEventListener('submit', e => e.preventDefault())")
+    assert page.locator("#computing").is_hidden()
+    page.click("#predict-button")
+    page.wait_for_selector("#computing", state="visible")
+    assert page.locator("#computing").inner_text() == "Computing…"
+    assert page.locator("#predict-button").is_disabled()

@@ -41,6 +41,9 @@ def test_first_visit_shows_the_form_and_no_prediction(client, db, demo_species, 
     assert f'<option value="{demo_species[0].name}"' in html
     assert 'id="line-table"' not in html
     assert "press <em>Predict lines</em>" in html
+    # Defaults: room temperature and 0-1 THz (planner/spectra/forms.py), shown without a trailing ".0".
+    assert 'name="temperature_k" value="300"' in html
+    assert 'name="fmax_mhz" value="1000000"' in html
 
 
 def test_page_table_shows_the_engines_numbers(client, demo_with_lines, page_query, parse_table):
@@ -164,3 +167,12 @@ def test_page_loads_plotly_from_our_static_files(client, demo_with_lines, page_q
     assert 'src="/static/vendor/plotly/plotly.min.js"' in html
     assert "cdn" not in html.lower()
     assert 'id="plot-data"' in html
+
+
+def test_print_stylesheet_is_linked_for_print_and_summary_is_printable(client, demo_with_lines, page_query):
+    species, prediction = demo_with_lines
+    html = client.get(URL, page_query(species.name)).content.decode()
+    assert '<link rel="stylesheet" href="/static/css/print.css" media="print">' in html
+    summary = html.split('<div class="result-head">')[1].split("</dl>")[0]
+    assert "no-print" not in summary  # temperature, window, Q(T), J limit and line count reach the paper
+    assert f'id="line-count">{len(prediction.lines)}<' in summary
