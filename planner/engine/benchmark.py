@@ -54,7 +54,7 @@ def benchmark_request(j_max: int) -> PredictionRequest:
 def bare_eigen_solve_seconds(species: Species, j_max: int, repeats: int) -> float:
     """Best time of numpy.linalg.eigh over the prebuilt Wang blocks of J = 0..j_max [s]."""
     solver = AsymmetricSolver(species.states[0], species.reduction, species.representation)
-    matrices = [matrix for j in range(j_max + 1) for _, _, matrix in solver.block_matrices(j)]
+    matrices = [matrix for j in range(j_max + 1) for _, matrix in solver.block_matrices(j)[1]]
     best = float("inf")
     for _ in range(repeats):
         start = time.perf_counter()

@@ -46,6 +46,7 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 
@@ -193,3 +194,59 @@ def dense_from_bands(band: np.ndarray) -> np.ndarray:
         matrix[idx, idx + m] = off
         matrix[idx + m, idx] = off
     return matrix
+
+
+@dataclass(frozen=True)
+class WangIndex:
+    """Where a Wang block's basis functions sit in the full |J,K⟩ basis of J.
+
+    ``plus`` holds the positions of +K and ``minus`` those of −K (K = 0 maps to
+    itself); ``scale`` is 1/√2 for K = 0 and 1 otherwise, so that
+    W = scale·(H[plus, plus] + s·H[plus, minus])·scale is the block matrix.
+    """
+
+    block: WangBlock
+    plus: np.ndarray
+    minus: np.ndarray
+    scale: np.ndarray
+
+
+@lru_cache(maxsize=1024)
+def wang_index(j: int) -> tuple[WangIndex, ...]:
+    """The Wang blocks of J with their positions in the full basis (cached: depends on J only)."""
+    out = []
+    for block in wang_blocks(j):
+        k = block.k_values
+        out.append(WangIndex(block, k + j, -k + j, np.where(k == 0, np.sqrt(0.5), 1.0)))
+    return tuple(out)
+
+
+def full_matrix(elements: dict[int, np.ndarray], values: np.ndarray, j: int) -> np.ndarray:
+    """Dense symmetric Hamiltonian of J in the |J,K⟩ basis from operator elements and constants."""
+    n = 2 * j + 1
+    matrix = np.zeros((n, n))
+    for d, coefficients in elements.items():
+        if coefficients.shape[1] == 0:
+            continue
+        band = values @ coefficients
+        idx = np.arange(n - d)
+        matrix[idx + d, idx] = band
+        if d:
+            matrix[idx, idx + d] = band
+    return matrix
+
+
+def wang_pair_matrix(full: np.ndarray, bra: WangIndex, ket: WangIndex) -> np.ndarray:
+    """Element block of a full-basis operator between two Wang blocks (n_bra, n_ket).
+
+    For an operator with ⟨−K1|O|−K2⟩ = ε⟨K1|O|K2⟩ and blocks that it connects
+    (s_bra·s_ket·ε = 1), ⟨K1,s1|O|K2,s2⟩ = scale·(O(K1,K2) + s2·O(K1,−K2))·scale.
+    """
+    rows = bra.plus[:, None]
+    block = full[rows, ket.plus[None, :]] + ket.block.sign * full[rows, ket.minus[None, :]]
+    return bra.scale[:, None] * block * ket.scale[None, :]
+
+
+def wang_block_matrix(full: np.ndarray, index: WangIndex) -> np.ndarray:
+    """Diagonal block of the Wang-transformed Hamiltonian for one (parity, sign) block."""
+    return wang_pair_matrix(full, index, index)

@@ -83,6 +83,24 @@ def j_cap_for(species: Species, request: PredictionRequest) -> int:
     return min(cap, request.j_cap) if request.j_cap else cap
 
 
+def rigid_j_lower_bound(state: State, vibrational_mhz: float, temperature_k: float, weight_ratio: float) -> int:
+    """A J below which the climb of an asymmetric-top state cannot stop [dimensionless].
+
+    The lowest level of J lies at or below the diagonal element (B+C)/2·J(J+1)
+    (Ir; any diagonal element bounds the lowest eigenvalue from above), so each
+    J adds at least (2J+1)·e^(−(B+C)/2·J(J+1)/kT) (times the smallest non-zero
+    spin weight, and e^(−E_v/kT) for a state at E_v) to Q, while Q stays below twice its classical value
+    √(π/(ABC))·(kT/h)^(3/2) (times the largest weight).  Centrifugal distortion
+    only lowers the levels, so the true stopping J is higher still.
+    """
+    kt_mhz = temperature_k * MHZ_PER_K
+    a, b, c = state.value("A"), state.value("B"), state.value("C")
+    q_high = 2.0 * np.sqrt(np.pi / (a * b * c)) * kt_mhz**1.5 * weight_ratio + 10.0
+    j = np.arange(0, 100000)
+    term = (2 * j + 1) * np.exp(-(vibrational_mhz + (b + c) / 2.0 * j * (j + 1)) / kt_mhz)
+    return int(np.argmax(term < Q_TOLERANCE * q_high))
+
+
 def climb(species: Species, request: PredictionRequest) -> tuple[list[StateLadder], float, float]:
     """Solve every state's levels as far as the request needs.
 
@@ -101,26 +119,38 @@ def climb(species: Species, request: PredictionRequest) -> tuple[list[StateLadde
     partition = 0.0
     bound_max = 0.0
     ladders = []
+    weights = species.spin_weights
+    weight_ratio = max(weights.even, weights.odd) / min(w for w in (weights.even, weights.odd) if w) if weights else 1.0
     for state in sorted(species.states, key=lambda s: s.energy_cm1):
+        if species.rotor == "asymmetric" and cap >= hard_cap:
+            vibrational_mhz = (state.energy_cm1 - origin_cm1) * MHZ_PER_CM1
+            at_least = rigid_j_lower_bound(state, vibrational_mhz, request.temperature_k, weight_ratio)
+            if at_least > hard_cap:
+                raise EngineLimitError(
+                    f"{species.name} ({state.label}) at {request.temperature_k:g} K needs levels above "
+                    f"J = {at_least}, beyond the engine's limit of J = {hard_cap} for an asymmetric rotor. "
+                    "Lower the temperature."
+                )
         solver = solver_for(species, state)
         ladder = StateLadder(state, tuple(solver.parameter_names), (state.energy_cm1 - origin_cm1) * MHZ_PER_CM1)
         previous_term = previous_bound = previous_low = None
         j = 0
         while True:
             rung = solver.solve(j)
-            weights = level_spin_weights(species, rung)
+            level_weights = level_spin_weights(species, rung)
             energies = ladder.vibrational_mhz + rung.energies_mhz
-            term = float(np.sum(weights * rung.k_degeneracy * (2 * j + 1) * np.exp(-energies / kt_mhz)))
+            term = float(np.sum(level_weights * rung.k_degeneracy * (2 * j + 1) * np.exp(-energies / kt_mhz)))
             ladder.rungs.append(rung)
-            ladder.spin_weights.append(weights)
+            ladder.spin_weights.append(level_weights)
             ladder.partition_sum += term
             partition += term
             low = float(energies.min())
             if previous_low is not None and low < previous_low:
                 raise EngineLimitError(
-                    f"{species.name} ({state.label}): the lowest level of J={j} lies below that of J={j - 1}; "
-                    "the centrifugal-distortion constants give falling energies there, so the series has broken "
-                    "down. Lower the temperature or check the distortion constants."
+                    f"{species.name} ({state.label}) at {request.temperature_k:g} K needs levels up to J > {j}, "
+                    f"but there the lowest level of J = {j} lies below that of J = {j - 1}: the "
+                    "centrifugal-distortion series of these constants has broken down. Lower the temperature, "
+                    "or add the higher-order constants that hold the levels up."
                 )
             bound = INTENSITY_PREFACTOR * g_max * (2 * j + 1) * mu_max2 * np.exp(-low / kt_mhz) * window_factor
             bound /= partition

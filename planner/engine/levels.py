@@ -36,6 +36,7 @@ class BlockSolution:
     energies_mhz: np.ndarray
     vectors: np.ndarray
     first_level: int = 0  # index of the block's first level within its JLevels
+    index: hamiltonian.WangIndex | None = None  # positions in the full |J,K⟩ basis
 
 
 @dataclass
@@ -116,23 +117,30 @@ class AsymmetricSolver:
         self.values = np.array([state.value(p) for p in self.parameter_names])
 
     def block_matrices(self, j: int):
-        """(block, bands, dense H) for each Wang block of J."""
+        """(elements, [(WangIndex, block matrix), ...]) for the Wang blocks of J."""
         elements = hamiltonian.full_basis_elements(j, self.reduction, self.representation)
-        for block in hamiltonian.wang_blocks(j):
-            bands = hamiltonian.wang_bands(block, elements)
-            yield block, bands, hamiltonian.dense_from_bands(np.tensordot(self.values, bands, axes=1))
+        full = hamiltonian.full_matrix(elements, self.values, j)
+        return elements, [(index, hamiltonian.wang_block_matrix(full, index)) for index in hamiltonian.wang_index(j)]
 
     def solve(self, j: int) -> JLevels:
-        kas, kcs, energies, derivatives, solutions = [], [], [], [], []
+        elements, blocks = self.block_matrices(j)
+        size = 2 * j + 1
+        kas, kcs, energies, solutions = [], [], [], []
+        # Eigenvectors expanded to the full basis, one column per level, for ⟨ψ|O_p|ψ⟩.
+        full_vectors = np.zeros((size, size))
         first = 0
-        for block, bands, matrix in self.block_matrices(j):
+        for index, matrix in blocks:
+            block = index.block
             values, vectors = np.linalg.eigh(matrix)
             ka, kc = block_labels(j, block.parity, block.sign, self.representation)
-            solutions.append(BlockSolution(j, block.parity, block.sign, block.k_values, values, vectors, first))
+            solutions.append(BlockSolution(j, block.parity, block.sign, block.k_values, values, vectors, first, index))
+            columns = slice(first, first + len(values))
+            scaled = vectors * (index.scale * np.sqrt(0.5))[:, None]
+            full_vectors[index.plus, columns] += scaled
+            full_vectors[index.minus, columns] += block.sign * scaled
             kas.append(ka)
             kcs.append(kc)
             energies.append(values)
-            derivatives.append(_expectation_values(bands, vectors))
             first += len(values)
         return JLevels(
             j=j,
@@ -140,20 +148,21 @@ class AsymmetricSolver:
             kc=np.concatenate(kcs),
             energies_mhz=np.concatenate(energies),
             k_degeneracy=np.ones(first),
-            derivatives=np.concatenate(derivatives),
+            derivatives=_expectation_values(elements, full_vectors),
             blocks=solutions,
         )
 
 
-def _expectation_values(bands: np.ndarray, vectors: np.ndarray) -> np.ndarray:
-    """⟨v_k|O_p|v_k⟩ for every eigenvector k and operator p → (n_levels, n_params).
+def _expectation_values(elements: dict[int, np.ndarray], vectors: np.ndarray) -> np.ndarray:
+    """⟨u_k|O_p|u_k⟩ for every full-basis eigenvector u_k and operator p → (n_levels, n_params).
 
-    Uses the band structure: Σ_m (2 − δ_m0) Σ_i O_p[i, i+m] v_i v_(i+m).
+    Σ_d (2 − δ_d0) Σ_K ⟨K+d|O_p|K⟩ u_K u_(K+d), using the band structure of O_p.
     """
     n = vectors.shape[0]
-    result = bands[:, 0, :] @ (vectors * vectors)
-    for m in range(1, min(bands.shape[1], n)):
-        result += 2.0 * bands[:, m, : n - m] @ (vectors[: n - m] * vectors[m:])
+    result = elements[0] @ (vectors * vectors)
+    for d, coefficients in elements.items():
+        if d and coefficients.shape[1]:
+            result += 2.0 * coefficients @ (vectors[: n - d] * vectors[d:])
     return result.T
 
 

@@ -14,8 +14,8 @@ import numpy as np
 
 #: Column name -> (dtype, meaning with unit).  Order is the export order.
 LINE_COLUMNS: dict[str, tuple[str, str]] = {
-    "species": ("U", "species name"),
-    "state": ("U", "label of the vibrational state the line belongs to"),
+    "species": ("O", "species name"),
+    "state": ("O", "label of the vibrational state the line belongs to"),
     "frequency_mhz": ("f8", "line frequency [MHz]"),
     "sigma_mhz": ("f8", "1σ uncertainty of the frequency from the constants' 1σ [MHz]"),
     "j_up": ("i8", "J of the upper level"),
@@ -24,7 +24,7 @@ LINE_COLUMNS: dict[str, tuple[str, str]] = {
     "j_lo": ("i8", "J of the lower level"),
     "ka_lo": ("i8", "Ka of the lower level (K for symmetric tops; -1 = undefined)"),
     "kc_lo": ("i8", "Kc of the lower level (-1 = undefined)"),
-    "dipole_type": ("U", "a, b or c: the dipole component that carries the line"),
+    "dipole_type": ("O", "a, b or c: the dipole component that carries the line"),
     "el_cm1": ("f8", "lower-level energy above the species' lowest level [cm^-1]"),
     "eu_cm1": ("f8", "upper-level energy above the species' lowest level [cm^-1]"),
     "el_k": ("f8", "lower-level energy / k [K]"),
@@ -49,7 +49,7 @@ class LineTable:
 
     @classmethod
     def empty(cls) -> "LineTable":
-        return cls({name: np.zeros(0, dtype=dtype if dtype != "U" else object) for name, (dtype, _) in LINE_COLUMNS.items()})
+        return cls({name: np.zeros(0, dtype=dtype) for name, (dtype, _) in LINE_COLUMNS.items()})
 
     def __len__(self) -> int:
         return len(self.columns["frequency_mhz"])
@@ -63,10 +63,12 @@ class LineTable:
 
     @classmethod
     def concatenate(cls, tables: list["LineTable"]) -> "LineTable":
-        """Join tables and sort the result by frequency."""
+        """Join tables (each sorted by frequency) into one sorted by frequency."""
         tables = [t for t in tables if len(t)]
         if not tables:
             return cls.empty()
+        if len(tables) == 1:
+            return tables[0]
         joined = {name: np.concatenate([t.columns[name] for t in tables]) for name in LINE_COLUMNS}
         order = np.argsort(joined["frequency_mhz"], kind="stable")
         return cls({name: values[order] for name, values in joined.items()})
@@ -90,7 +92,8 @@ class Prediction:
     """Lines of one species (or several, after :func:`merge`) for one request.
 
     ``partition_function`` is Q(T) per species name; ``j_max`` the highest J
-    whose levels entered the line list, per species; ``messages`` explains
+    whose levels entered the line list, per species; ``intensity_floor`` the
+    floor the lines were cut at [nm² MHz], per species; ``messages`` explains
     empty or truncated results in words for the user.
     """
 
@@ -100,6 +103,7 @@ class Prediction:
     fmax_mhz: float
     partition_function: dict[str, float] = field(default_factory=dict)
     j_max: dict[str, int] = field(default_factory=dict)
+    intensity_floor: dict[str, float] = field(default_factory=dict)
     messages: list[str] = field(default_factory=list)
 
     def records(self) -> list[dict]:
@@ -120,5 +124,6 @@ def merge(predictions: list[Prediction]) -> Prediction:
     for p in predictions:
         merged.partition_function.update(p.partition_function)
         merged.j_max.update(p.j_max)
+        merged.intensity_floor.update(p.intensity_floor)
         merged.messages.extend(p.messages)
     return merged

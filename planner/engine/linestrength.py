@@ -26,8 +26,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from .hamiltonian import wang_pair_matrix
 from .levels import BlockSolution
-from .wigner import three_j_rank1
+from .wigner import clebsch_gordan_rank1
 
 #: Molecule-fixed axis (x, y, z of the representation) of each principal axis.
 PRINCIPAL_TO_REPRESENTATION = {"Ir": {"a": "z", "b": "x", "c": "y"}, "IIIr": {"a": "x", "b": "y", "c": "z"}}
@@ -42,39 +43,80 @@ def connected_block(axis: str, delta_j: int, parity: int, sign: int) -> tuple[in
     return (parity if axis == "z" else 1 - parity), sign * epsilon
 
 
-def _direction_cosine(j: int, jp: int, k: np.ndarray, q: int) -> np.ndarray:
-    """M_q[K, K − q] = (−1)^(J−K) (J 1 J′; −K q K − q), vectorised over K."""
-    phase = np.where((j - k) % 2 == 0, 1.0, -1.0)
-    return phase * three_j_rank1(j, jp, k, q)
+def direction_cosine(j: int, jp: int, k: np.ndarray, q: int) -> np.ndarray:
+    """M_q[K, K − q] = (−1)^(J−K) (J 1 J′; −K q K − q), vectorised over K [dimensionless].
+
+    With the phase of Eq. 2.19 of [3] folded in this is
+    (−1)^(1+q) ⟨J −K; 1 q | J′ −K+q⟩ / √(2J′+1).
+    """
+    sign = -1.0 if q == 0 else 1.0
+    return sign * clebsch_gordan_rank1(j, -np.asarray(k), q, jp) / np.sqrt(2 * jp + 1)
 
 
-def axis_operator(axis: str, j: int, jp: int, k1: np.ndarray, k2: np.ndarray) -> np.ndarray:
-    """Full-basis element ⟨J,K1| O_axis |J′,K2⟩ for arrays K1, K2 (any sign)."""
-    k1 = np.asarray(k1)
-    k2 = np.asarray(k2)
+def full_axis_operator(axis: str, j: int, jp: int) -> np.ndarray:
+    """Dense ⟨J,K|O_axis|J′,K′⟩ over K = −J..J, K′ = −J′..J′ (rows, columns).
+
+    z: M_0; x: (M_−1 − M_+1)/√2; y: (M_−1 + M_+1)/√2 (Eq. 4 of [2]).
+    """
+    k = np.arange(-j, j + 1)
+    operator = np.zeros((2 * j + 1, 2 * jp + 1))
     if axis == "z":
-        return np.where(k2 == k1, _direction_cosine(j, jp, k1, 0), 0.0)
-    sign_plus = -1.0 if axis == "x" else 1.0  # x = (M−1 − M+1)/√2, y = (M−1 + M+1)/√2
-    lower = np.where(k2 == k1 + 1, _direction_cosine(j, jp, k1, -1), 0.0)
-    upper = np.where(k2 == k1 - 1, sign_plus * _direction_cosine(j, jp, k1, 1), 0.0)
-    return SQRT_HALF * (lower + upper)
+        terms = ((0, 1.0),)
+    else:
+        terms = ((-1, SQRT_HALF), (1, (-SQRT_HALF if axis == "x" else SQRT_HALF)))
+    for q, factor in terms:
+        kp = k - q
+        valid = np.abs(kp) <= jp
+        operator[(k + j)[valid], (kp + jp)[valid]] = factor * direction_cosine(j, jp, k[valid], q)
+    return operator
 
 
 def wang_operator(axis: str, bra: BlockSolution, ket: BlockSolution) -> np.ndarray:
-    """Matrix of O_axis between the Wang basis functions of two blocks (n_bra, n_ket).
+    """Matrix of O_axis between the Wang basis functions of two connected blocks (n_bra, n_ket)."""
+    return wang_pair_matrix(full_axis_operator(axis, bra.j, ket.j), bra.index, ket.index)
 
-    Element = 2 N_K1 N_K2 [O(K1, K2) + s2 O(K1, −K2)], N = 1/√2 (K > 0), 1/2 (K = 0).
+
+def wang_operator_stack(rung, other, pairs, size: int) -> np.ndarray:
+    """Wang-basis operator matrices of many block pairs of J and J′ at once, zero padded.
+
+    ``pairs`` holds (bra block, ket block, _, axis) with blocks indexed in
+    ``rung.blocks`` and ``other.blocks``.  Returns (n_pairs, size, size) with the
+    same elements as :func:`wang_operator`: inside the blocks O(K1, K2) joins
+    K2 = K1 (z) or K2 = K1 ± 1 (x, y), scaled by 1/√2 at K = 0, plus the
+    s2·O(K1, −K2) term that only reaches K1 + K2 ≤ 1.
     """
-    k1 = bra.k_values[:, None]
-    k2 = ket.k_values[None, :]
-    near = np.abs(k1 - k2) <= 1
-    value = np.zeros((len(bra.k_values), len(ket.k_values)))
-    rows, cols = np.nonzero(near | ((k1 + k2) <= 1))
-    a, b = bra.k_values[rows], ket.k_values[cols]
-    element = axis_operator(axis, bra.j, ket.j, a, b) + ket.sign * axis_operator(axis, bra.j, ket.j, a, -b)
-    norm = np.where(a == 0, 0.5, SQRT_HALF) * np.where(b == 0, 0.5, SQRT_HALF)
-    value[rows, cols] = 2.0 * norm * element
-    return value
+    j, jp = rung.j, other.j
+    bras = [rung.blocks[p[0]] for p in pairs]
+    kets = [other.blocks[p[1]] for p in pairs]
+    first_bra = np.array([int(b.k_values[0]) for b in bras])[:, None]
+    first_ket = np.array([int(b.k_values[0]) for b in kets])[:, None]
+    size_bra = np.array([len(b.k_values) for b in bras])[:, None]
+    size_ket = np.array([len(b.k_values) for b in kets])[:, None]
+    sign_ket = np.array([b.sign for b in kets], dtype=float)[:, None]
+    axis = np.array([p[3] for p in pairs])[:, None]
+    row = np.broadcast_to(np.arange(size), (len(pairs), size))
+    k1 = first_bra + 2 * row
+    stack = np.zeros((len(pairs), size, size))
+    # ⟨K1|O|K1 + d⟩ = factor(q) · M_q(K1) with q = −d.
+    factors = {0: np.where(axis == "z", 1.0, 0.0)}
+    factors[-1] = np.where(axis == "z", 0.0, SQRT_HALF)  # d = +1
+    factors[1] = np.where(axis == "x", -SQRT_HALF, np.where(axis == "y", SQRT_HALF, 0.0))  # d = −1
+    cosine = {q: direction_cosine(j, jp, np.arange(j + 1), q) for q in (-1, 0, 1)}
+    for q, factor in factors.items():
+        k2 = k1 - q
+        col = (k2 - first_ket) // 2
+        valid = (row < size_bra) & (k2 >= first_ket) & (col < size_ket) & (k1 <= j) & (factor != 0)
+        value = factor * cosine[q][np.clip(k1, 0, j)]
+        # The s2·O(K1, −K2) term: at K1 = 1, K2 = 0 it doubles the element; at K1 = 0, K2 = 1 it adds O(0, −1).
+        value = np.where((k1 == 1) & (k2 == 0), 2.0 * value, value)
+        if q == -1:
+            value = np.where((k1 == 0) & (k2 == 1), value + sign_ket * factors[1] * cosine[1][0], value)
+        scale = np.where(k1 == 0, SQRT_HALF, 1.0) * np.where(k2 == 0, SQRT_HALF, 1.0)
+        if q == 0:
+            scale = np.where(k1 == 0, 1.0, scale)  # K1 = K2 = 0: O(0,0) + O(0,0) scaled by 1/2
+        which, rows = np.nonzero(valid)
+        stack[which, rows, col[which, rows]] = (value * scale)[which, rows]
+    return stack
 
 
 def block_strengths(axis: str, bra: BlockSolution, ket: BlockSolution) -> np.ndarray:

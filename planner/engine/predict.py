@@ -14,7 +14,7 @@ from .transitions import TransitionSet, asymmetric_transitions, closed_form_tran
 
 __all__ = ["EngineLimitError", "predict", "predict_many"]
 
-AXIS_INDEX = {"a": 0, "b": 1, "c": 2}
+AXIS_LETTERS = np.array(["a", "b", "c"])
 
 
 def predict(species: Species, request: PredictionRequest) -> Prediction:
@@ -32,9 +32,8 @@ def predict(species: Species, request: PredictionRequest) -> Prediction:
     ladders, partition, floor = climb(species, request)
     prediction.partition_function[species.name] = partition
     prediction.j_max[species.name] = max(ladder.j_max for ladder in ladders)
-    tables = [_state_lines(species, ladder, request, partition) for ladder in ladders]
-    lines = LineTable.concatenate(tables)
-    lines = lines.take(lines["intensity_nm2mhz"] >= floor)
+    prediction.intensity_floor[species.name] = floor
+    lines = LineTable.concatenate([_state_lines(species, ladder, request, partition, floor) for ladder in ladders])
     prediction.lines = lines
     if any(ladder.truncated for ladder in ladders):
         prediction.messages.append(
@@ -54,41 +53,56 @@ def predict_many(species_list, request: PredictionRequest) -> Prediction:
     return merge([predict(s, request) for s in species_list])
 
 
-def _state_lines(species: Species, ladder: StateLadder, request: PredictionRequest, partition: float) -> LineTable:
+def _state_lines(
+    species: Species, ladder: StateLadder, request: PredictionRequest, partition: float, floor: float
+) -> LineTable:
     if species.rotor == "asymmetric":
         found = asymmetric_transitions(
             ladder, species.dipole_debye, species.representation, request.fmin_mhz, request.fmax_mhz
         )
     else:
-        axis = "c" if species.rotor == "symmetric-oblate" else "a"
+        axis = 2 if species.rotor == "symmetric-oblate" else 0  # the symmetry axis: c or a
         found = closed_form_transitions(ladder, axis, request.fmin_mhz, request.fmax_mhz)
-    return _line_table(species, ladder, found, request, partition)
+    return _line_table(species, ladder, found, request, partition, floor)
 
 
 def _line_table(
-    species: Species, ladder: StateLadder, found: TransitionSet, request: PredictionRequest, partition: float
+    species: Species,
+    ladder: StateLadder,
+    found: TransitionSet,
+    request: PredictionRequest,
+    partition: float,
+    floor: float,
 ) -> LineTable:
+    """Columns of the lines in ``found`` at or above ``floor`` [nm² MHz], sorted by frequency."""
     energy = ladder.flat_energies()
     spin = np.concatenate(ladder.spin_weights)
     # A line exists only between levels of the same nuclear-spin species.
     same_spin = (spin[found.lower] == spin[found.upper]) & (spin[found.lower] > 0)
     lo, up = found.lower[same_spin], found.upper[same_spin]
     strength, axis = found.strength[same_spin], found.axis[same_spin]
+
+    frequency = energy[up] - energy[lo]
+    mu2 = np.array(species.dipole_debye) ** 2
+    s_mu2 = strength * mu2[axis]
+    weight = spin[lo] * ladder.flat("k_degeneracy")[lo]
+    intensity = integrated_intensity(frequency, weight * s_mu2, energy[lo], request.temperature_k, partition)
+    # Keep the lines at or above the floor, in order of frequency, before building the other columns.
+    keep = np.nonzero(intensity >= floor)[0]
+    keep = keep[np.argsort(frequency[keep], kind="stable")]
+    lo, up, strength, axis = lo[keep], up[keep], strength[keep], axis[keep]
+    frequency, s_mu2, intensity = frequency[keep], s_mu2[keep], intensity[keep]
     if not len(lo):
         return LineTable.empty()
 
     j = ladder.flat_j()
     ka, kc = ladder.flat("ka"), ladder.flat("kc")
-    k_degeneracy = ladder.flat("k_degeneracy")
-    derivatives = np.concatenate([r.derivatives for r in ladder.rungs])
     sigma = np.array([ladder.state.sigma(p) for p in ladder.parameter_names])
+    uncertain = np.nonzero(sigma)[0]  # constants with σ = 0 add nothing to σν
+    derivatives = np.concatenate([r.derivatives[:, uncertain] for r in ladder.rungs]) * sigma[uncertain]
 
-    frequency = energy[up] - energy[lo]
-    mu2 = np.array(species.dipole_debye) ** 2
-    s_mu2 = strength * mu2[[AXIS_INDEX[x] for x in axis]]
-    weight = spin[lo] * k_degeneracy[lo]
     # Uncorrelated propagation: σν² = Σ_p (∂ν/∂p · σ_p)², ∂ν/∂p = ∂E_u/∂p − ∂E_l/∂p.
-    sigma_mhz = np.sqrt((((derivatives[up] - derivatives[lo]) * sigma) ** 2).sum(axis=1))
+    sigma_mhz = np.sqrt(((derivatives[up] - derivatives[lo]) ** 2).sum(axis=1))
     n = len(lo)
     columns = {
         "species": np.full(n, species.name, dtype=object),
@@ -101,7 +115,7 @@ def _line_table(
         "j_lo": j[lo],
         "ka_lo": ka[lo],
         "kc_lo": kc[lo],
-        "dipole_type": axis.astype(object),
+        "dipole_type": AXIS_LETTERS[axis].astype(object),
         "el_cm1": energy[lo] / MHZ_PER_CM1,
         "eu_cm1": energy[up] / MHZ_PER_CM1,
         "el_k": energy[lo] / MHZ_PER_K,
@@ -110,7 +124,7 @@ def _line_table(
         "s_mu2_d2": s_mu2,
         "spin_weight": spin[lo].astype(float),
         "einstein_a_s": einstein_a(frequency, s_mu2, j[up]),
-        "intensity_nm2mhz": integrated_intensity(frequency, weight * s_mu2, energy[lo], request.temperature_k, partition),
+        "intensity_nm2mhz": intensity,
         "doppler_fwhm_mhz": doppler_fwhm(frequency, request.temperature_k, species.mass_amu),
     }
     assert list(columns) == list(LINE_COLUMNS)

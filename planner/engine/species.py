@@ -185,8 +185,10 @@ class Species:
         if self.spin_weights is not None:
             if self.rotor == "asymmetric" and self.spin_weights.axis == "C3":
                 raise SpeciesError("spin_weights.axis", "an asymmetric top has no C3 axis; use 'a', 'b' or 'c'")
-            if self.rotor != "asymmetric" and self.spin_weights.axis != "C3":
-                raise SpeciesError("spin_weights.axis", f"a {self.rotor} rotor takes axis 'C3' weights only")
+            if self.rotor == "linear":
+                raise SpeciesError("spin_weights", "a linear molecule takes no spin weights (it has no K levels)")
+            if self.rotor.startswith("symmetric") and self.spin_weights.axis != "C3":
+                raise SpeciesError("spin_weights.axis", "a symmetric top takes axis 'C3' weights only")
         if not self.states:
             raise SpeciesError("states", "at least one state is needed")
         labels = set()
@@ -207,7 +209,10 @@ class Species:
             path = f"{where}.constants_mhz.{name}"
             if name not in allowed:
                 kind = self.rotor + (f" ({self.reduction}-reduction)" if self.rotor == "asymmetric" else "")
-                raise SpeciesError(path, f"unknown parameter {name!r} for a {kind} rotor; allowed: {', '.join(allowed)}")
+                article = "an" if kind[0] in "aeiou" else "a"
+                raise SpeciesError(
+                    path, f"unknown parameter {name!r} for {article} {kind} rotor; allowed: {', '.join(allowed)}"
+                )
             if not _finite(value):
                 raise SpeciesError(path, f"value must be a finite number, got {value!r}")
             if not _finite(sigma) or sigma < 0:

@@ -18,7 +18,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from .ladder import StateLadder
-from .linestrength import PRINCIPAL_TO_REPRESENTATION, block_strengths, connected_block, symmetric_top_strength
+from .levels import BlockSolution, JLevels
+from .linestrength import PRINCIPAL_TO_REPRESENTATION, connected_block, symmetric_top_strength, wang_operator_stack
 
 #: Strengths below this are numerical zeros of the direction-cosine products.
 STRENGTH_EPSILON = 1e-12
@@ -29,12 +30,12 @@ class TransitionSet:
     lower: np.ndarray  # index of the lower level in the ladder's flat arrays
     upper: np.ndarray
     strength: np.ndarray  # S of the carrying dipole component
-    axis: np.ndarray  # 'a', 'b' or 'c'
+    axis: np.ndarray  # 0, 1, 2 for a, b, c
 
     @classmethod
     def join(cls, parts: list["TransitionSet"]) -> "TransitionSet":
         if not parts:
-            return cls(np.zeros(0, int), np.zeros(0, int), np.zeros(0), np.zeros(0, dtype="<U1"))
+            return cls(np.zeros(0, int), np.zeros(0, int), np.zeros(0), np.zeros(0, int))
         return cls(*(np.concatenate([getattr(p, f) for p in parts]) for f in ("lower", "upper", "strength", "axis")))
 
 
@@ -42,7 +43,7 @@ def in_window(frequency: np.ndarray, fmin_mhz: float, fmax_mhz: float) -> np.nda
     return (frequency >= fmin_mhz) & (frequency <= fmax_mhz) & (frequency > 0)
 
 
-def closed_form_transitions(ladder: StateLadder, dipole_axis: str, fmin_mhz: float, fmax_mhz: float) -> TransitionSet:
+def closed_form_transitions(ladder: StateLadder, dipole_axis: int, fmin_mhz: float, fmax_mhz: float) -> TransitionSet:
     """J → J+1, ΔK = 0 lines of a linear molecule or symmetric top."""
     offsets = ladder.offsets()
     parts = []
@@ -69,35 +70,67 @@ def asymmetric_transitions(
 ) -> TransitionSet:
     """a-, b- and c-type lines with ΔJ = 0, +1 between the ladder's Wang blocks."""
     offsets = ladder.offsets()
-    axes = [(p, PRINCIPAL_TO_REPRESENTATION[representation][p]) for p, mu in zip("abc", dipole_debye) if mu != 0]
+    axes = [(n, PRINCIPAL_TO_REPRESENTATION[representation][p]) for n, (p, mu) in enumerate(zip("abc", dipole_debye)) if mu]
     parts = []
     for rung in ladder.rungs:
         for delta_j in (0, 1):
             if rung.j + delta_j > ladder.j_max or (rung.j == 0 and delta_j == 0):
                 continue
             other = ladder.rungs[rung.j + delta_j]
-            by_symmetry = {(b.parity, b.sign): (n, b) for n, b in enumerate(other.blocks)}
-            for principal, axis in axes:
-                for i, bra in enumerate(rung.blocks):
-                    n, ket = by_symmetry.get(connected_block(axis, delta_j, bra.parity, bra.sign), (None, None))
-                    if ket is None or (delta_j == 0 and n <= i):
-                        continue  # a ΔJ = 0 block pair is visited once
-                    frequency = np.abs(ket.energies_mhz[None, :] - bra.energies_mhz[:, None])
-                    keep = in_window(frequency, fmin_mhz, fmax_mhz)
-                    if not keep.any():
-                        continue
-                    strength = block_strengths(axis, bra, ket)
-                    keep &= strength > STRENGTH_EPSILON
-                    rows, cols = np.nonzero(keep)
-                    a = offsets[rung.j] + bra.first_level + rows
-                    b = offsets[other.j] + ket.first_level + cols
-                    upper_is_ket = ket.energies_mhz[cols] > bra.energies_mhz[rows]
-                    parts.append(
-                        TransitionSet(
-                            lower=np.where(upper_is_ket, a, b),
-                            upper=np.where(upper_is_ket, b, a),
-                            strength=strength[rows, cols],
-                            axis=np.full(len(rows), principal),
-                        )
-                    )
+            pairs = _block_pairs(rung, other, axes, delta_j)
+            if pairs:
+                parts.append(_pair_transitions(rung, other, pairs, offsets, fmin_mhz, fmax_mhz))
     return TransitionSet.join(parts)
+
+
+def _block_pairs(rung: JLevels, other: JLevels, axes, delta_j: int) -> list[tuple[int, int, int, str]]:
+    """(bra block, ket block, principal axis code, representation axis) of every connected pair."""
+    by_symmetry = {(b.parity, b.sign): n for n, b in enumerate(other.blocks)}
+    pairs = []
+    for code, axis in axes:
+        for i, bra in enumerate(rung.blocks):
+            n = by_symmetry.get(connected_block(axis, delta_j, bra.parity, bra.sign))
+            if n is not None and not (delta_j == 0 and n <= i):  # a ΔJ = 0 pair is visited once
+                pairs.append((i, n, code, axis))
+    return pairs
+
+
+def _padded(blocks: list[BlockSolution], size: int) -> tuple[np.ndarray, np.ndarray]:
+    """Eigenvectors (n_blocks, size, size) and energies (n_blocks, size), zero/NaN padded."""
+    vectors = np.zeros((len(blocks), size, size))
+    energies = np.full((len(blocks), size), np.nan)
+    for n, block in enumerate(blocks):
+        m = len(block.energies_mhz)
+        vectors[n, :m, :m] = block.vectors
+        energies[n, :m] = block.energies_mhz
+    return vectors, energies
+
+
+def _pair_transitions(
+    rung: JLevels, other: JLevels, pairs, offsets: np.ndarray, fmin_mhz: float, fmax_mhz: float
+) -> TransitionSet:
+    """Lines of all connected block pairs between two J, computed as one padded batch."""
+    size = max(len(b.energies_mhz) for b in rung.blocks + other.blocks)
+    bra_vectors, bra_energies = _padded(rung.blocks, size)
+    ket_vectors, ket_energies = (bra_vectors, bra_energies) if other is rung else _padded(other.blocks, size)
+    bra_at = np.array([p[0] for p in pairs])
+    ket_at = np.array([p[1] for p in pairs])
+    operators = wang_operator_stack(rung, other, pairs, size)
+    amplitude = np.matmul(bra_vectors[bra_at].transpose(0, 2, 1), np.matmul(operators, ket_vectors[ket_at]))
+    strength = (2 * rung.j + 1) * (2 * other.j + 1) * amplitude**2
+    e_bra = bra_energies[bra_at][:, :, None]
+    e_ket = ket_energies[ket_at][:, None, :]
+    with np.errstate(invalid="ignore"):
+        keep = in_window(np.abs(e_ket - e_bra), fmin_mhz, fmax_mhz) & (strength > STRENGTH_EPSILON)
+    which, rows, cols = np.nonzero(keep)
+    first_bra = np.array([rung.blocks[p[0]].first_level for p in pairs])
+    first_ket = np.array([other.blocks[p[1]].first_level for p in pairs])
+    a = offsets[rung.j] + first_bra[which] + rows
+    b = offsets[other.j] + first_ket[which] + cols
+    upper_is_ket = e_ket[which, 0, cols] > e_bra[which, rows, 0]
+    return TransitionSet(
+        lower=np.where(upper_is_ket, a, b),
+        upper=np.where(upper_is_ket, b, a),
+        strength=strength[which, rows, cols],
+        axis=np.array([p[2] for p in pairs])[which],
+    )
