@@ -152,7 +152,7 @@ def test_sum_rule_over_all_upper_and_lower_partners(representation, axis):
 
 
 def test_prolate_limit_strengths_are_symmetric_top_strengths():
-    """B = C, a-axis (z in Ir) dipole; per K component (PHYSICS.md; Gordy & Cook 1984, Ch. 8):
+    """B = C, a-axis (z in Ir) dipole; per K component (PHYSICS.md "Linear and symmetric tops"; Gordy & Cook 1984):
     S(J -> J+1) = ((J+1)^2 - K^2)/(J+1), S(J -> J) = K^2 (2J+1)/(J(J+1)), S(J -> J-1) = (J^2 - K^2)/J."""
     solver = AsymmetricSolver(_state({"A": 9000.0, "B": 2500.0, "C": 2500.0}), "A", "Ir")
     levels = {j: solver.solve(j) for j in range(0, 12)}

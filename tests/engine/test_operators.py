@@ -3,8 +3,8 @@
 Route 1 (this module): the full (2J+1) x (2J+1) Hamiltonian built from explicit
 angular-momentum matrices in |J,K>, K = -J..J, by matrix products only:
 Jz = diag(K), <K+1|J+|K> = sqrt(J(J+1) - K(K+1)), J- = J+^T, J^2 = J(J+1) 1,
-Jx^2 - Jy^2 = (J+^2 + J-^2)/2, {P, Q} = PQ + QP (textbook identities, Zare 1988,
-Ch. 1; Watson 1977 for the operator forms of the A and S reductions).
+Jx^2 - Jy^2 = (J+^2 + J-^2)/2, {P, Q} = PQ + QP (textbook identities, Zare 1988;
+Watson 1977 for the operator forms of the A and S reductions).
 Route 2 (the engine): closed-form matrix elements folded into Wang blocks.
 Both are diagonalised and compared as sorted eigenvalue lists.
 """
@@ -51,7 +51,7 @@ def _state(constants: dict[str, float]) -> State:
 
 
 def angular_momentum(j: int):
-    """(Jz, J+, J-, J^2) in |J,K>, K = -J..J (textbook identities, Zare 1988, Ch. 1)."""
+    """(Jz, J+, J-, J^2) in |J,K>, K = -J..J (textbook identities, Zare 1988)."""
     k = np.arange(-j, j + 1, dtype=float)
     jz = np.diag(k)
     j_plus = np.zeros((2 * j + 1, 2 * j + 1))

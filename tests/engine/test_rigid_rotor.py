@@ -145,14 +145,14 @@ def test_levels_of_one_j_rise_with_tau():
 
 
 def test_j3_closed_forms_reduce_to_prolate_symmetric_top():
-    """B = C: E = B J(J+1) + (A - B) Ka^2 (textbook identity, Gordy & Cook 1984, Ch. 8)."""
+    """B = C: E = B J(J+1) + (A - B) Ka^2 (textbook identity; PHYSICS.md "Linear and symmetric tops")."""
     a, b = 9000.0, 2500.0
     for (j, ka, _), energy in closed_form_j3(a, b, b).items():
         assert energy == pytest.approx(b * j * (j + 1) + (a - b) * ka**2, rel=1e-14)
 
 
 def test_j3_closed_forms_reduce_to_oblate_symmetric_top():
-    """A = B: E = B J(J+1) + (C - B) Kc^2 (textbook identity, Gordy & Cook 1984, Ch. 8)."""
+    """A = B: E = B J(J+1) + (C - B) Kc^2 (textbook identity; PHYSICS.md "Linear and symmetric tops")."""
     b, c = 4000.0, 1500.0
     for (j, _, kc), energy in closed_form_j3(b, b, c).items():
         assert energy == pytest.approx(b * j * (j + 1) + (c - b) * kc**2, rel=1e-14)

@@ -39,14 +39,14 @@ def kt_mhz(temperature_k: float) -> float:
 
 
 def test_rigid_linear_levels_are_0_2b_6b_12b():
-    """E(J) = B J(J+1) (Gordy & Cook 1984, Ch. 2)."""
+    """E(J) = B J(J+1) (textbook identity, Gordy & Cook 1984; PHYSICS.md)."""
     solver = LinearSolver(State("v=0", 0.0, {"B": (B_MHZ, 0.0)}))
     energies = [solver.solve(j).energies_mhz[0] for j in range(4)]
     assert_allclose(energies, [0.0, 2 * B_MHZ, 6 * B_MHZ, 12 * B_MHZ], rtol=1e-15, atol=0)
 
 
 def test_level_degeneracy_2j_plus_1_shows_in_low_temperature_q():
-    """Q = 1 + 3 e^(-2hB/kT) + 5 e^(-6hB/kT) + ... (textbook, Gordy & Cook 1984, Ch. 3)."""
+    """Q = 1 + 3 e^(-2hB/kT) + 5 e^(-6hB/kT) + ... (textbook identity: PHYSICS.md Q with degeneracy 2J+1)."""
     temperature_k = 2.0
     ratio = B_MHZ / kt_mhz(temperature_k)  # hB/kT ~ 0.48
     expected = sum((2 * j + 1) * math.exp(-ratio * j * (j + 1)) for j in range(40))
@@ -58,7 +58,7 @@ def test_level_degeneracy_2j_plus_1_shows_in_low_temperature_q():
 
 
 def test_rigid_linear_lines_are_spaced_by_2b_with_strength_j_plus_1():
-    """nu(J -> J+1) = 2B(J+1) (Gordy & Cook 1984, Ch. 2); S = J+1 (PHYSICS.md)."""
+    """nu(J -> J+1) = 2B(J+1) (textbook identity, Gordy & Cook 1984); S = J+1 (PHYSICS.md)."""
     prediction = predict(_linear(B=B_MHZ), PredictionRequest(1.0, 250000.0, 300.0))
     lines = prediction.lines
     assert lines["j_lo"].tolist() == list(range(6))  # 40, 80, ..., 240 GHz
@@ -69,7 +69,7 @@ def test_rigid_linear_lines_are_spaced_by_2b_with_strength_j_plus_1():
 
 def test_centrifugal_distortion_lowers_levels_and_lines():
     """E = B x - D x^2 (x = J(J+1)), so nu = 2B(J+1) - 4D(J+1)^3 < 2B(J+1) for D > 0
-    (textbook identity, Gordy & Cook 1984, Ch. 2)."""
+    (textbook identity, Gordy & Cook 1984)."""
     rigid = LinearSolver(State("v=0", 0.0, {"B": (B_MHZ, 0.0)}))
     distorted = LinearSolver(State("v=0", 0.0, {"B": (B_MHZ, 0.0), "D": (D_MHZ, 0.0)}))
     for j in range(1, 30):
@@ -95,7 +95,7 @@ def test_unit_conversions_equal_codata():
 
 def test_einstein_a_prefactor_from_si_and_gaussian_forms():
     """A = 16 pi^3 nu^3 mu^2 S / (3 eps0 h c^3 (2J+1)) in SI; 64 pi^4 nu^3 mu^2 S / (3 h c^3 (2J+1)) in
-    Gaussian units (Gordy & Cook 1984, Ch. 3; Townes & Schawlow 1955, Ch. 1); nu = 1 MHz, mu^2 S = 1 D^2."""
+    Gaussian units (Gordy & Cook 1984; Townes & Schawlow 1955; PHYSICS.md); nu = 1 MHz, mu^2 S = 1 D^2."""
     si = 16 * math.pi**3 * 1e18 * DEBYE_SI**2 / (3 * codata.epsilon_0 * codata.h * codata.c**3)
     h_cgs, c_cgs = codata.h * 1e7, codata.c * 100  # erg s, cm/s
     gaussian = 64 * math.pi**4 * 1e18 * (1e-18) ** 2 / (3 * h_cgs * c_cgs**3)
@@ -106,7 +106,7 @@ def test_einstein_a_prefactor_from_si_and_gaussian_forms():
 
 def test_intensity_prefactor_from_si_and_gaussian_forms():
     """Integrated cross-section per molecule 2 pi^2 nu S mu^2 / (3 eps0 h c) (SI) = 8 pi^3 nu S mu^2 / (3 h c)
-    (Gaussian; Gordy & Cook 1984, Ch. 2) for nu = 1 MHz, S mu^2 = 1 D^2, converted to nm^2 MHz."""
+    (Gaussian; Gordy & Cook 1984; PHYSICS.md) for nu = 1 MHz, S mu^2 = 1 D^2, converted to nm^2 MHz."""
     si_m2_hz = 2 * math.pi**2 * 1e6 * DEBYE_SI**2 / (3 * codata.epsilon_0 * codata.h * codata.c)
     gaussian_cm2_hz = 8 * math.pi**3 * 1e6 * (1e-18) ** 2 / (3 * codata.h * 1e7 * codata.c * 100)
     nm2_mhz_per_m2_hz = 1e18 / 1e6
@@ -116,7 +116,7 @@ def test_intensity_prefactor_from_si_and_gaussian_forms():
 
 
 def test_doppler_fwhm_equals_direct_computation():
-    """FWHM = nu sqrt(8 kT ln2 / (m c^2)) (Townes & Schawlow 1955, Ch. 13; PHYSICS.md), CODATA via scipy.constants."""
+    """FWHM = nu sqrt(8 kT ln2 / (m c^2)) (Townes & Schawlow 1955; PHYSICS.md), CODATA via scipy.constants."""
     for nu, temperature_k, mass in ((100000.0, 300.0, 28.0), (3000.0, 10.0, 120.0), (950000.0, 1000.0, 2.0)):
         direct = nu * math.sqrt(8 * codata.k * temperature_k * math.log(2) / (mass * codata.atomic_mass * codata.c**2))
         assert doppler_fwhm(nu, temperature_k, mass) == pytest.approx(direct, rel=1e-14)
@@ -142,8 +142,8 @@ def test_prefactors_agree_with_physics_md_to_five_digits():
 
 
 def test_predicted_einstein_a_and_intensity_equal_si_formulas():
-    """Every line of a rigid linear molecule at 300 K against the SI forms written here (Gordy & Cook 1984,
-    Chs. 2-3) with Q = sum (2J+1) e^(-E/kT) summed here, energies E = hB J(J+1)."""
+    """Every line of a rigid linear molecule at 300 K against the SI forms written here (Gordy & Cook 1984;
+    PHYSICS.md) with Q = sum (2J+1) e^(-E/kT) summed here, energies E = hB J(J+1)."""
     temperature_k = 300.0
     prediction = predict(_linear(B=B_MHZ), PredictionRequest(1.0, 250000.0, temperature_k))
     assert len(prediction.lines) == 6  # J = 0..5 -> J + 1 below 250 GHz
