@@ -8,8 +8,17 @@ FORMAT_VERSION = 1
 
 FILE_KEYS = ("format", "version", "species")
 SPECIES_KEYS = (
-    "name", "formula", "rotor", "reduction", "representation", "mass_amu",
-    "dipole_debye", "spin_weights", "states", "source", "notes",
+    "name",
+    "formula",
+    "rotor",
+    "reduction",
+    "representation",
+    "mass_amu",
+    "dipole_debye",
+    "spin_weights",
+    "states",
+    "source",
+    "notes",
 )
 REQUIRED_SPECIES_KEYS = ("name", "formula", "rotor", "dipole_debye", "states")
 STATE_KEYS = ("label", "energy_cm1", "constants_mhz")

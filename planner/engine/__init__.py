@@ -8,7 +8,7 @@ Pure numpy/scipy; nothing here imports Django.  Entry points:
 from .linelist import LINE_COLUMNS, LineTable, Prediction, merge
 from .predict import EngineLimitError, predict, predict_many
 from .request import PredictionRequest
-from .species import SpeciesError, Species, SpinWeights, State, allowed_parameters
+from .species import Species, SpeciesError, SpinWeights, State, allowed_parameters
 
 __all__ = [
     "LINE_COLUMNS",

@@ -82,7 +82,9 @@ def main(argv=None) -> None:
 
     species = benchmark_species()
     request = benchmark_request(args.j_max)
-    predict(species, request)  # warm caches and imports before timing
+    start = time.perf_counter()
+    predict(species, request)  # the first run also fills the small direction-cosine cache
+    cold = time.perf_counter() - start
 
     full, count = line_list_seconds(species, request, args.repeats)
     bare = bare_eigen_solve_seconds(species, args.j_max, args.repeats)
@@ -94,7 +96,8 @@ def main(argv=None) -> None:
     rss_peak_mb = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0
 
     print(f"asymmetric top, J = 0..{args.j_max}, a/b/c-type lines: {count} lines")
-    print(f"full line list          {full * 1e3:8.1f} ms   (target <= 500 ms)")
+    print(f"full line list          {full * 1e3:8.1f} ms   (target <= 500 ms; best of {args.repeats})")
+    print(f"  first run             {cold * 1e3:8.1f} ms   (cold caches)")
     print(f"bare eigen-solve        {bare * 1e3:8.1f} ms   (numpy.linalg.eigh on the same Wang blocks)")
     print(f"ratio full / eigen      {full / bare:8.2f}      (target <= 3)")
     print(f"peak memory of the run  {traced_peak / 2**20:8.1f} MB   (tracemalloc; target <= 200 MB)")

@@ -24,6 +24,8 @@ References
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 
 from .hamiltonian import wang_pair_matrix
@@ -72,50 +74,80 @@ def full_axis_operator(axis: str, j: int, jp: int) -> np.ndarray:
 
 
 def wang_operator(axis: str, bra: BlockSolution, ket: BlockSolution) -> np.ndarray:
-    """Matrix of O_axis between the Wang basis functions of two connected blocks (n_bra, n_ket)."""
+    """Matrix of O_axis between the Wang basis functions of two connected blocks (n_bra, n_ket).
+
+    Raises ValueError for blocks that the axis does not connect (the matrix is zero there).
+    """
+    if connected_block(axis, ket.j - bra.j, bra.parity, bra.sign) != (ket.parity, ket.sign):
+        raise ValueError(
+            f"axis {axis} does not connect block (parity {bra.parity}, sign {bra.sign:+d}) of J={bra.j} "
+            f"with block (parity {ket.parity}, sign {ket.sign:+d}) of J={ket.j}"
+        )
     return wang_pair_matrix(full_axis_operator(axis, bra.j, ket.j), bra.index, ket.index)
 
 
-def wang_operator_stack(rung, other, pairs, size: int) -> np.ndarray:
-    """Wang-basis operator matrices of many block pairs of J and J′ at once, zero padded.
+@lru_cache(maxsize=1024)
+def _cosines(j: int, jp: int) -> dict[int, np.ndarray]:
+    """M_q(K) for K = 0..J and q = −1, 0, 1 (small; depends on J and J′ only)."""
+    k = np.arange(j + 1)
+    return {q: direction_cosine(j, jp, k, q) for q in (-1, 0, 1)}
+
+
+#: (q, axes that use it, factor per axis) of ⟨K1|O|K1 − q⟩ = factor · M_q(K1).
+_Q_TERMS = ((0, {"z": 1.0}), (-1, {"x": SQRT_HALF, "y": SQRT_HALF}), (1, {"x": -SQRT_HALF, "y": SQRT_HALF}))
+
+
+def wang_operator_terms(rung, other, pairs, size: int) -> list[tuple[np.ndarray, ...]]:
+    """Non-zero Wang-basis operator elements of many block pairs of J and J′ at once.
 
     ``pairs`` holds (bra block, ket block, _, axis) with blocks indexed in
-    ``rung.blocks`` and ``other.blocks``.  Returns (n_pairs, size, size) with the
-    same elements as :func:`wang_operator`: inside the blocks O(K1, K2) joins
+    ``rung.blocks`` and ``other.blocks``.  Returns up to three (pair, row,
+    column, value) arrays, each with at most one element per (pair, row), with
+    the same elements as :func:`wang_operator`: inside the blocks O(K1, K2) joins
     K2 = K1 (z) or K2 = K1 ± 1 (x, y), scaled by 1/√2 at K = 0, plus the
     s2·O(K1, −K2) term that only reaches K1 + K2 ≤ 1.
     """
     j, jp = rung.j, other.j
+    cosine = _cosines(j, jp)
     bras = [rung.blocks[p[0]] for p in pairs]
     kets = [other.blocks[p[1]] for p in pairs]
-    first_bra = np.array([int(b.k_values[0]) for b in bras])[:, None]
-    first_ket = np.array([int(b.k_values[0]) for b in kets])[:, None]
-    size_bra = np.array([len(b.k_values) for b in bras])[:, None]
-    size_ket = np.array([len(b.k_values) for b in kets])[:, None]
-    sign_ket = np.array([b.sign for b in kets], dtype=float)[:, None]
-    axis = np.array([p[3] for p in pairs])[:, None]
-    row = np.broadcast_to(np.arange(size), (len(pairs), size))
-    k1 = first_bra + 2 * row
-    stack = np.zeros((len(pairs), size, size))
-    # ⟨K1|O|K1 + d⟩ = factor(q) · M_q(K1) with q = −d.
-    factors = {0: np.where(axis == "z", 1.0, 0.0)}
-    factors[-1] = np.where(axis == "z", 0.0, SQRT_HALF)  # d = +1
-    factors[1] = np.where(axis == "x", -SQRT_HALF, np.where(axis == "y", SQRT_HALF, 0.0))  # d = −1
-    cosine = {q: direction_cosine(j, jp, np.arange(j + 1), q) for q in (-1, 0, 1)}
-    for q, factor in factors.items():
-        k2 = k1 - q
-        col = (k2 - first_ket) // 2
-        valid = (row < size_bra) & (k2 >= first_ket) & (col < size_ket) & (k1 <= j) & (factor != 0)
-        value = factor * cosine[q][np.clip(k1, 0, j)]
-        # The s2·O(K1, −K2) term: at K1 = 1, K2 = 0 it doubles the element; at K1 = 0, K2 = 1 it adds O(0, −1).
-        value = np.where((k1 == 1) & (k2 == 0), 2.0 * value, value)
-        if q == -1:
-            value = np.where((k1 == 0) & (k2 == 1), value + sign_ket * factors[1] * cosine[1][0], value)
-        scale = np.where(k1 == 0, SQRT_HALF, 1.0) * np.where(k2 == 0, SQRT_HALF, 1.0)
-        if q == 0:
-            scale = np.where(k1 == 0, 1.0, scale)  # K1 = K2 = 0: O(0,0) + O(0,0) scaled by 1/2
+    first_bra = np.array([int(b.k_values[0]) for b in bras])
+    first_ket = np.array([int(b.k_values[0]) for b in kets])
+    size_bra = np.array([len(b.k_values) for b in bras])
+    size_ket = np.array([len(b.k_values) for b in kets])
+    axes = [p[3] for p in pairs]
+    row = np.arange(size)[None, :]
+    terms = []
+    for q, factors in _Q_TERMS:
+        chosen = np.array([n for n, axis in enumerate(axes) if axis in factors], dtype=np.intp)
+        if not len(chosen):
+            continue
+        k1 = first_bra[chosen, None] + 2 * row
+        col = (k1 - q - first_ket[chosen, None]) // 2
+        valid = (row < size_bra[chosen, None]) & (col >= 0) & (col < size_ket[chosen, None])
         which, rows = np.nonzero(valid)
-        stack[which, rows, col[which, rows]] = (value * scale)[which, rows]
+        k1, cols = k1[which, rows], col[which, rows]
+        factor = np.array([factors[axes[n]] for n in chosen])[which]
+        value = factor * cosine[q][k1]
+        which = chosen[which]
+        # Elements that touch K = 0 (few): the Wang normalisation and the O(K1, −K2) term.
+        k2 = k1 - q
+        for at in np.nonzero((k1 == 0) | (k2 == 0))[0]:
+            if q == 1:  # K1 = 1, K2 = 0: O(1,0) + O(1,−0), scaled by 1/√2
+                value[at] *= np.sqrt(2.0)
+            elif q == -1:  # K1 = 0, K2 = 1: (O(0,1) + s2·O(0,−1))/√2
+                sign = kets[which[at]].sign
+                value[at] = (value[at] + sign * _Q_TERMS[2][1][axes[which[at]]] * cosine[1][0]) * SQRT_HALF
+            # q = 0, K1 = K2 = 0: (O(0,0) + O(0,0))/2 leaves O(0,0).
+        terms.append((which, rows, cols, value))
+    return terms
+
+
+def wang_operator_stack(rung, other, pairs, size: int) -> np.ndarray:
+    """The terms of :func:`wang_operator_terms` as dense zero-padded matrices (n_pairs, size, size)."""
+    stack = np.zeros((len(pairs), size, size))
+    for which, rows, cols, values in wang_operator_terms(rung, other, pairs, size):
+        stack[which, rows, cols] += values
     return stack
 
 

@@ -14,7 +14,7 @@ from .transitions import TransitionSet, asymmetric_transitions, closed_form_tran
 
 __all__ = ["EngineLimitError", "predict", "predict_many"]
 
-AXIS_LETTERS = np.array(["a", "b", "c"])
+AXIS_LETTERS = np.array(["a", "b", "c"], dtype=object)
 
 
 def predict(species: Species, request: PredictionRequest) -> Prediction:
@@ -89,7 +89,7 @@ def _line_table(
     intensity = integrated_intensity(frequency, weight * s_mu2, energy[lo], request.temperature_k, partition)
     # Keep the lines at or above the floor, in order of frequency, before building the other columns.
     keep = np.nonzero(intensity >= floor)[0]
-    keep = keep[np.argsort(frequency[keep], kind="stable")]
+    keep = keep[np.argsort(frequency[keep])]
     lo, up, strength, axis = lo[keep], up[keep], strength[keep], axis[keep]
     frequency, s_mu2, intensity = frequency[keep], s_mu2[keep], intensity[keep]
     if not len(lo):
@@ -99,14 +99,18 @@ def _line_table(
     ka, kc = ladder.flat("ka"), ladder.flat("kc")
     sigma = np.array([ladder.state.sigma(p) for p in ladder.parameter_names])
     uncertain = np.nonzero(sigma)[0]  # constants with σ = 0 add nothing to σν
-    derivatives = np.concatenate([r.derivatives[:, uncertain] for r in ladder.rungs]) * sigma[uncertain]
+    # (n_params, n_levels): gathering along the contiguous axis is several times faster than by rows.
+    scaled = (np.concatenate([r.derivatives[:, uncertain] for r in ladder.rungs]) * sigma[uncertain]).T.copy()
 
     # Uncorrelated propagation: σν² = Σ_p (∂ν/∂p · σ_p)², ∂ν/∂p = ∂E_u/∂p − ∂E_l/∂p.
-    sigma_mhz = np.sqrt(((derivatives[up] - derivatives[lo]) ** 2).sum(axis=1))
+    difference = np.take(scaled, up, axis=1)
+    difference -= np.take(scaled, lo, axis=1)
+    sigma_mhz = np.sqrt(np.einsum("pi,pi->i", difference, difference))
     n = len(lo)
+    constant_text = np.array([species.name, ladder.state.label], dtype=object)
     columns = {
-        "species": np.full(n, species.name, dtype=object),
-        "state": np.full(n, ladder.state.label, dtype=object),
+        "species": constant_text[np.zeros(n, dtype=np.intp)],
+        "state": constant_text[np.ones(n, dtype=np.intp)],
         "frequency_mhz": frequency,
         "sigma_mhz": sigma_mhz,
         "j_up": j[up],
@@ -115,7 +119,7 @@ def _line_table(
         "j_lo": j[lo],
         "ka_lo": ka[lo],
         "kc_lo": kc[lo],
-        "dipole_type": AXIS_LETTERS[axis].astype(object),
+        "dipole_type": AXIS_LETTERS[axis],
         "el_cm1": energy[lo] / MHZ_PER_CM1,
         "eu_cm1": energy[up] / MHZ_PER_CM1,
         "el_k": energy[lo] / MHZ_PER_K,

@@ -53,5 +53,7 @@ class PredictionRequest:
             raise ValueError(f"min_intensity_nm2mhz must be >= 0, got {self.min_intensity_nm2mhz}")
         if not 0 < self.relative_floor < 1:
             raise ValueError(f"relative_floor must be in (0, 1), got {self.relative_floor}")
-        if self.j_cap is not None and (isinstance(self.j_cap, bool) or not isinstance(self.j_cap, int) or self.j_cap < 1):
+        if self.j_cap is not None and (
+            isinstance(self.j_cap, bool) or not isinstance(self.j_cap, int) or self.j_cap < 1
+        ):
             raise ValueError(f"j_cap must be a positive integer, got {self.j_cap!r}")

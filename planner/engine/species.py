@@ -21,14 +21,38 @@ LINEAR_PARAMETERS = ("B", "D", "H")
 PROLATE_PARAMETERS = ("A", "B", "DJ", "DJK", "DK", "HJ", "HJK", "HKJ", "HK")
 OBLATE_PARAMETERS = ("C", "B", "DJ", "DJK", "DK", "HJ", "HJK", "HKJ", "HK")
 A_REDUCTION_PARAMETERS = (
-    "A", "B", "C",
-    "DeltaJ", "DeltaJK", "DeltaK", "deltaJ", "deltaK",
-    "PhiJ", "PhiJK", "PhiKJ", "PhiK", "phiJ", "phiJK", "phiK",
+    "A",
+    "B",
+    "C",
+    "DeltaJ",
+    "DeltaJK",
+    "DeltaK",
+    "deltaJ",
+    "deltaK",
+    "PhiJ",
+    "PhiJK",
+    "PhiKJ",
+    "PhiK",
+    "phiJ",
+    "phiJK",
+    "phiK",
 )
 S_REDUCTION_PARAMETERS = (
-    "A", "B", "C",
-    "DJ", "DJK", "DK", "d1", "d2",
-    "HJ", "HJK", "HKJ", "HK", "h1", "h2", "h3",
+    "A",
+    "B",
+    "C",
+    "DJ",
+    "DJK",
+    "DK",
+    "d1",
+    "d2",
+    "HJ",
+    "HJK",
+    "HKJ",
+    "HK",
+    "h1",
+    "h2",
+    "h3",
 )
 
 #: Constants that must be given (and be > 0) for each rotor kind.

@@ -19,7 +19,7 @@ import numpy as np
 
 from .ladder import StateLadder
 from .levels import BlockSolution, JLevels
-from .linestrength import PRINCIPAL_TO_REPRESENTATION, connected_block, symmetric_top_strength, wang_operator_stack
+from .linestrength import PRINCIPAL_TO_REPRESENTATION, connected_block, symmetric_top_strength, wang_operator_terms
 
 #: Strengths below this are numerical zeros of the direction-cosine products.
 STRENGTH_EPSILON = 1e-12
@@ -70,7 +70,9 @@ def asymmetric_transitions(
 ) -> TransitionSet:
     """a-, b- and c-type lines with ΔJ = 0, +1 between the ladder's Wang blocks."""
     offsets = ladder.offsets()
-    axes = [(n, PRINCIPAL_TO_REPRESENTATION[representation][p]) for n, (p, mu) in enumerate(zip("abc", dipole_debye)) if mu]
+    axes = [
+        (n, PRINCIPAL_TO_REPRESENTATION[representation][p]) for n, (p, mu) in enumerate(zip("abc", dipole_debye)) if mu
+    ]
     parts = []
     for rung in ladder.rungs:
         for delta_j in (0, 1):
@@ -115,8 +117,12 @@ def _pair_transitions(
     ket_vectors, ket_energies = (bra_vectors, bra_energies) if other is rung else _padded(other.blocks, size)
     bra_at = np.array([p[0] for p in pairs])
     ket_at = np.array([p[1] for p in pairs])
-    operators = wang_operator_stack(rung, other, pairs, size)
-    amplitude = np.matmul(bra_vectors[bra_at].transpose(0, 2, 1), np.matmul(operators, ket_vectors[ket_at]))
+    # O·V_ket has at most two non-zero elements per row of O: build it by row gathers, not a matmul.
+    kets = ket_vectors[ket_at]
+    operated = np.zeros_like(kets)
+    for which, rows, cols, values in wang_operator_terms(rung, other, pairs, size):
+        operated[which, rows] += values[:, None] * kets[which, cols]
+    amplitude = np.matmul(bra_vectors[bra_at].transpose(0, 2, 1), operated)
     strength = (2 * rung.j + 1) * (2 * other.j + 1) * amplitude**2
     e_bra = bra_energies[bra_at][:, :, None]
     e_ket = ket_energies[ket_at][:, None, :]

@@ -22,24 +22,28 @@ def fields_of(problems, species):
 def _set(index, key, value):
     def change(data):
         data["species"][index][key] = value
+
     return change
 
 
 def _drop(index, key):
     def change(data):
         del data["species"][index][key]
+
     return change
 
 
 def _constant(index, name, value):
     def change(data):
         data["species"][index]["states"][0]["constants_mhz"][name] = value
+
     return change
 
 
 def _state_key(index, key, value):
     def change(data):
         data["species"][index]["states"][0][key] = value
+
     return change
 
 
@@ -73,8 +77,12 @@ SINGLE_FAULTS = [
     (_set(3, "spin_weights", {"axis": "b", "even": 1, "odd": -3}), "asym", "spin_weights.odd", ">= 0"),
     (_set(3, "spin_weights", {"axis": "b", "even": 0, "odd": 0}), "asym", "spin_weights", "both weights are zero"),
     (_set(1, "spin_weights", {"axis": "C3", "even": 4, "odd": 2}), "prolate", "spin_weights.even", "unknown key"),
-    (_set(1, "spin_weights", {"axis": "C3", "k_multiple_of_3": -4, "other": 2}), "prolate",
-     "spin_weights.k_multiple_of_3", ">= 0"),
+    (
+        _set(1, "spin_weights", {"axis": "C3", "k_multiple_of_3": -4, "other": 2}),
+        "prolate",
+        "spin_weights.k_multiple_of_3",
+        ">= 0",
+    ),
     (_set(1, "spin_weights", {"axis": "a", "even": 1, "odd": 3}), "prolate", "spin_weights.axis", "'C3' weights only"),
     (_set(0, "states", []), "lin", "states", "at least one state"),
     (_set(0, "states", {"label": "v=0"}), "lin", "states", "must be a list"),
@@ -239,8 +247,11 @@ def test_broken_file_lists_every_problem_and_returns_nothing(tmp_path, catalogue
             "dipole_debye": {"a": 2.3},
             "spin_weights": {"axis": "C3", "k_multiple_of_3": 1, "other": 3},
             "states": [
-                {"label": "g", "energy_cm1": 0, "constants_mhz": {"A": [281970, 0], "B": [38836, 0], "C": [34002, 0],
-                                                                  "DeltaJJ": [0.07, 0]}},
+                {
+                    "label": "g",
+                    "energy_cm1": 0,
+                    "constants_mhz": {"A": [281970, 0], "B": [38836, 0], "C": [34002, 0], "DeltaJJ": [0.07, 0]},
+                },
                 {"label": "v4", "energy_cm1": -1, "constants_mhz": {"A": [1, 0], "B": [2, 0], "C": [3, 0]}},
             ],
         },

@@ -28,6 +28,11 @@ def test_the_complete_example_is_a_valid_catalogue():
 
 def test_every_parameter_name_of_the_engine_is_documented():
     text = DOC.read_text(encoding="utf-8")
-    names = {*LINEAR_PARAMETERS, *PROLATE_PARAMETERS, *OBLATE_PARAMETERS, *A_REDUCTION_PARAMETERS,
-             *S_REDUCTION_PARAMETERS}
+    names = {
+        *LINEAR_PARAMETERS,
+        *PROLATE_PARAMETERS,
+        *OBLATE_PARAMETERS,
+        *A_REDUCTION_PARAMETERS,
+        *S_REDUCTION_PARAMETERS,
+    }
     assert [name for name in sorted(names) if f"`{name}`" not in text] == []

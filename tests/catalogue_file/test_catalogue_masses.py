@@ -39,8 +39,9 @@ def test_carbon_12_is_exactly_12_u():
 
 def test_deuterium_is_a_deuteron_plus_an_electron():
     # CODATA via scipy.constants; the 13.6 eV binding energy (1.5e-8 u) is below the tolerance
-    expected_amu = constants.physical_constants["deuteron mass in u"][0] + constants.physical_constants[
-        "electron mass in u"][0]
+    expected_amu = (
+        constants.physical_constants["deuteron mass in u"][0] + constants.physical_constants["electron mass in u"][0]
+    )
     assert mass_from_formula("D") == pytest.approx(expected_amu, abs=1e-7)
 
 

@@ -58,8 +58,15 @@ def species_list():
             spin_weights=SpinWeights("a", 1, 3),
             states=(
                 # given out of order on purpose: the writer sorts them
-                state("v=0", 0.0, PhiKJ=(-1e-4, 1e-5), C=(34002.2, 0.01), A=(281970.5, 0.1), deltaK=(1.03, 1e-3),
-                      B=(38836.0, 0.01)),
+                state(
+                    "v=0",
+                    0.0,
+                    PhiKJ=(-1e-4, 1e-5),
+                    C=(34002.2, 0.01),
+                    A=(281970.5, 0.1),
+                    deltaK=(1.03, 1e-3),
+                    B=(38836.0, 0.01),
+                ),
                 state("v4=1", 1167.26, A=(286000.0, 5), B=(38900.0, 1), C=(33900.0, 1)),
             ),
         ),
@@ -72,8 +79,18 @@ def species_list():
             mass_amu=42.0106,
             dipole_debye=(0.1, 1.4, 0.3),
             spin_weights=SpinWeights("c", 3, 1),
-            states=(state("g", 0.0, A=(282000.0, 500), B=(10293.3, 0.05), C=(9915.9, 0.05), d1=(-9.2e-5, 1e-5),
-                          d2=(-3e-6, 2e-6), h3=(1.0e-12, 0)),),
+            states=(
+                state(
+                    "g",
+                    0.0,
+                    A=(282000.0, 500),
+                    B=(10293.3, 0.05),
+                    C=(9915.9, 0.05),
+                    d1=(-9.2e-5, 1e-5),
+                    d2=(-3e-6, 2e-6),
+                    h3=(1.0e-12, 0),
+                ),
+            ),
             source="fixture",
         ),
         Species(

@@ -16,15 +16,24 @@ def _keys(lines):
 # Constant sets recalled from the literature (from memory); here they only need to be physical.
 SPECIES = [
     Species(
-        name="OCS", rotor="linear", mass_amu=59.967, dipole_debye=(0.7152, 0, 0),
+        name="OCS",
+        rotor="linear",
+        mass_amu=59.967,
+        dipole_debye=(0.7152, 0, 0),
         states=(State("v=0", 0.0, {"B": (6081.4921, 0.0), "D": (0.0013011, 0.0)}),),
     ),
     Species(
-        name="CH3CN", rotor="symmetric-prolate", mass_amu=41.027, dipole_debye=(3.922, 0, 0),
+        name="CH3CN",
+        rotor="symmetric-prolate",
+        mass_amu=41.027,
+        dipole_debye=(3.922, 0, 0),
         states=(State("v=0", 0.0, {"A": (158099.0, 0), "B": (9198.899, 0), "DJ": (0.003808, 0), "DJK": (0.1774, 0)}),),
     ),
     Species(
-        name="H2CO", rotor="asymmetric", mass_amu=30.0106, dipole_debye=(2.331, 0, 0),
+        name="H2CO",
+        rotor="asymmetric",
+        mass_amu=30.0106,
+        dipole_debye=(2.331, 0, 0),
         states=(State("v=0", 0.0, {"A": (281970.56, 0), "B": (38836.0455, 0), "C": (34002.2034, 0)}),),
     ),
 ]
@@ -42,7 +51,9 @@ def test_no_line_above_the_floor_is_missed(species, temperature_k, window_mhz):
     assert len(strong) == len(automatic.lines)
     assert _keys(automatic.lines) == _keys(strong)
     # Q(T) had converged: the deeper climb changes it by less than 1e-10 (relative).
-    assert deeper.partition_function[species.name] == pytest.approx(automatic.partition_function[species.name], rel=1e-10)
+    assert deeper.partition_function[species.name] == pytest.approx(
+        automatic.partition_function[species.name], rel=1e-10
+    )
 
 
 def test_a_colder_request_climbs_less_far():
@@ -62,7 +73,10 @@ def test_higher_absolute_floor_cuts_weaker_lines():
 
 
 HEAVY_RIGID_TOP = Species(
-    name="heavy top", rotor="asymmetric", mass_amu=150.0, dipole_debye=(1.0, 0, 0),
+    name="heavy top",
+    rotor="asymmetric",
+    mass_amu=150.0,
+    dipole_debye=(1.0, 0, 0),
     # Invented rigid-rotor constants of a heavy molecule: only their size matters here.
     states=(State("v=0", 0.0, {"A": (3000.0, 0), "B": (1000.0, 0), "C": (800.0, 0)}),),
 )

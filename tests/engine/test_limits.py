@@ -23,13 +23,26 @@ from planner.engine.levels import AsymmetricSolver, LinearSolver, SymmetricSolve
 
 #: Symmetric-top constants [MHz]: synthetic, physically sized (a ~50 u prolate top), no source.
 SYMMETRIC = {
-    "B": 2500.0, "DJ": 1.2e-3, "DJK": 2.1e-2, "DK": 0.11, "HJ": 1.3e-8, "HJK": 3.1e-7, "HKJ": -2.2e-6, "HK": 5.3e-6,
+    "B": 2500.0,
+    "DJ": 1.2e-3,
+    "DJK": 2.1e-2,
+    "DK": 0.11,
+    "HJ": 1.3e-8,
+    "HJK": 3.1e-7,
+    "HKJ": -2.2e-6,
+    "HK": 5.3e-6,
 }
 A_PROLATE_MHZ = 9000.0
 C_OBLATE_MHZ = 1500.0
 #: Symmetric-top name -> A-reduction name (textbook identity, see module docstring).
 TO_A_REDUCTION = {
-    "DJ": "DeltaJ", "DJK": "DeltaJK", "DK": "DeltaK", "HJ": "PhiJ", "HJK": "PhiJK", "HKJ": "PhiKJ", "HK": "PhiK",
+    "DJ": "DeltaJ",
+    "DJK": "DeltaJK",
+    "DK": "DeltaK",
+    "HJ": "PhiJ",
+    "HJK": "PhiJK",
+    "HKJ": "PhiKJ",
+    "HK": "PhiK",
 }
 J_MAX = 30
 
@@ -100,13 +113,19 @@ def _prolate_pair() -> tuple[Species, Species]:
     b = SYMMETRIC["B"]
     quartic = {name: SYMMETRIC[name] for name in ("DJ", "DJK", "DK")}
     symmetric = Species(
-        "prolate", "symmetric-prolate", 50.0, (DIPOLE_A_DEBYE, 0.0, 0.0),
+        "prolate",
+        "symmetric-prolate",
+        50.0,
+        (DIPOLE_A_DEBYE, 0.0, 0.0),
         (State("v=0", 0.0, {"A": (A_PROLATE_MHZ, 0.0), "B": (b, 0.0), **{k: (v, 0.0) for k, v in quartic.items()}}),),
     )
     asymmetric_constants = {"A": A_PROLATE_MHZ, "B": b + SPLIT_MHZ / 2, "C": b - SPLIT_MHZ / 2}
     asymmetric_constants.update({TO_A_REDUCTION[k]: v for k, v in quartic.items()})
     asymmetric = Species(
-        "near-prolate", "asymmetric", 50.0, (DIPOLE_A_DEBYE, 0.0, 0.0),
+        "near-prolate",
+        "asymmetric",
+        50.0,
+        (DIPOLE_A_DEBYE, 0.0, 0.0),
         (State("v=0", 0.0, {k: (v, 0.0) for k, v in asymmetric_constants.items()}),),
     )
     return symmetric, asymmetric

@@ -21,8 +21,16 @@ from planner.engine.linestrength import block_strengths, connected_block, symmet
 from planner.engine.wigner import three_j_rank1
 
 #: Asymmetric top with some distortion [MHz]; synthetic, no source (kappa = -0.6).
-CONSTANTS = {"A": 9000.0, "B": 4000.0, "C": 2750.0, "DeltaJ": 1.1e-3, "DeltaJK": -6e-3, "DeltaK": 4e-2,
-             "deltaJ": 3e-4, "deltaK": 2e-3}
+CONSTANTS = {
+    "A": 9000.0,
+    "B": 4000.0,
+    "C": 2750.0,
+    "DeltaJ": 1.1e-3,
+    "DeltaJK": -6e-3,
+    "DeltaK": 4e-2,
+    "deltaJ": 3e-4,
+    "deltaK": 2e-3,
+}
 AXES = ("z", "x", "y")
 
 
@@ -63,8 +71,9 @@ def test_three_j_rank1_matches_racah_formula():
             for q in (-1, 0, 1):
                 expected = [racah_3j(j, 1, jp, -int(kk), q, int(kk) - q) for kk in k]
                 # Closed forms vs factorial sums of integers below 25!: both accurate to ~1e-15.
-                assert_allclose(three_j_rank1(j, jp, k, q), expected, rtol=1e-12, atol=1e-14,
-                                err_msg=f"J={j}, J'={jp}, q={q}")
+                assert_allclose(
+                    three_j_rank1(j, jp, k, q), expected, rtol=1e-12, atol=1e-14, err_msg=f"J={j}, J'={jp}, q={q}"
+                )
 
 
 # --- independent full-basis direction cosines ----------------------------------------------------
@@ -72,6 +81,7 @@ def test_three_j_rank1_matches_racah_formula():
 
 def full_basis_operator(axis: str, j: int, jp: int) -> np.ndarray:
     """<J,K|O_axis|J',K'> for K = -J..J (rows), K' = -J'..J' (columns), PHYSICS.md "Line strengths"."""
+
     def m_q(q):
         m = np.zeros((2 * j + 1, 2 * jp + 1))
         for i, k in enumerate(range(-j, j + 1)):
@@ -121,8 +131,9 @@ def test_block_strengths_match_full_basis_and_only_connected_blocks_couple(repre
                         where = f"{axis}, J={j} {bra.parity, bra.sign} -> J'={jp} {ket.parity, ket.sign}"
                         if connected_block(axis, delta_j, bra.parity, bra.sign) == (ket.parity, ket.sign):
                             # Same sums of products of numbers O(1): rounding only.
-                            assert_allclose(block_strengths(axis, bra, ket), full_strength, rtol=1e-10, atol=1e-12,
-                                            err_msg=where)
+                            assert_allclose(
+                                block_strengths(axis, bra, ket), full_strength, rtol=1e-10, atol=1e-12, err_msg=where
+                            )
                         else:
                             # The connection table is right: every other block pair has no strength.
                             assert np.abs(full_strength).max(initial=0.0) < 1e-24, where
@@ -190,8 +201,14 @@ ALLOWED = {
 
 def _species(dipole, representation: str, constants=None) -> Species:
     constants = constants or CONSTANTS
-    return Species("top", "asymmetric", 60.0, dipole, (State("v=0", 0.0, {k: (v, 0.0) for k, v in constants.items()}),),
-                   representation=representation)
+    return Species(
+        "top",
+        "asymmetric",
+        60.0,
+        dipole,
+        (State("v=0", 0.0, {k: (v, 0.0) for k, v in constants.items()}),),
+        representation=representation,
+    )
 
 
 @pytest.mark.parametrize("representation", ["Ir", "IIIr"])
@@ -210,11 +227,14 @@ RIGID = {"A": 9000.0, "B": 4000.0, "C": 2750.0}
 
 
 @pytest.mark.parametrize("representation", ["Ir", "IIIr"])
-@pytest.mark.parametrize("dipole, upper, frequency", [
-    ((1.0, 0.0, 0.0), (1, 0, 1), RIGID["B"] + RIGID["C"]),
-    ((0.0, 1.0, 0.0), (1, 1, 1), RIGID["A"] + RIGID["C"]),
-    ((0.0, 0.0, 1.0), (1, 1, 0), RIGID["A"] + RIGID["B"]),
-])
+@pytest.mark.parametrize(
+    "dipole, upper, frequency",
+    [
+        ((1.0, 0.0, 0.0), (1, 0, 1), RIGID["B"] + RIGID["C"]),
+        ((0.0, 1.0, 0.0), (1, 1, 1), RIGID["A"] + RIGID["C"]),
+        ((0.0, 0.0, 1.0), (1, 1, 0), RIGID["A"] + RIGID["B"]),
+    ],
+)
 def test_each_dipole_axis_reaches_its_own_j1_level_from_000(representation, dipole, upper, frequency):
     """From 0_00: a-type -> 1_01, b-type -> 1_11, c-type -> 1_10, S = 1 each (sum rule with one partner,
     PHYSICS.md; textbook, Gordy & Cook 1984, Ch. 7).  Checks the x/y assignment of b and c."""
@@ -236,8 +256,7 @@ def test_rigid_rotor_lines_do_not_depend_on_the_representation():
     for representation in ("Ir", "IIIr"):
         records = predict(_species((1.0, 0.8, 0.6), representation, RIGID), request).records()
         tables[representation] = {
-            (r["j_up"], r["ka_up"], r["kc_up"], r["j_lo"], r["ka_lo"], r["kc_lo"], r["dipole_type"]): r
-            for r in records
+            (r["j_up"], r["ka_up"], r["kc_up"], r["j_lo"], r["ka_lo"], r["kc_lo"], r["dipole_type"]): r for r in records
         }
     assert len(tables["Ir"]) > 1000
     assert tables["Ir"].keys() == tables["IIIr"].keys()
@@ -245,8 +264,11 @@ def test_rigid_rotor_lines_do_not_depend_on_the_representation():
     # Different matrices with the same eigenvalues: level energies (up to ~1e6 MHz here) agree to
     # rounding, ~1e-16 |E| * block size, so frequencies to 1e-8 MHz absolute (low-frequency lines are
     # differences of large energies); S and intensities to ~1e-12 relative.
-    for column, rtol, atol in (("frequency_mhz", 1e-12, 1e-8), ("line_strength", 1e-10, 0.0),
-                               ("intensity_nm2mhz", 1e-10, 0.0)):
+    for column, rtol, atol in (
+        ("frequency_mhz", 1e-12, 1e-8),
+        ("line_strength", 1e-10, 0.0),
+        ("intensity_nm2mhz", 1e-10, 0.0),
+    ):
         ir = [tables["Ir"][k][column] for k in keys]
         iiir = [tables["IIIr"][k][column] for k in keys]
         assert_allclose(iiir, ir, rtol=rtol, atol=atol, err_msg=column)

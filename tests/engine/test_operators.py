@@ -29,10 +29,30 @@ AXES = {"Ir": ("B", "C", "A"), "IIIr": ("A", "B", "C")}
 #: Typical magnitudes [MHz] of the constants of a ~50 u asymmetric top (common practice, no source).
 #: Signs and factors 0.5-1.5 are drawn at random below so that no term can hide behind another.
 SCALES = {
-    "DeltaJ": 1e-3, "DeltaJK": 1e-2, "DeltaK": 5e-2, "deltaJ": 3e-4, "deltaK": 5e-3,
-    "PhiJ": 1e-8, "PhiJK": 1e-7, "PhiKJ": 5e-7, "PhiK": 2e-6, "phiJ": 5e-9, "phiJK": 5e-8, "phiK": 5e-7,
-    "DJ": 1e-3, "DJK": 1e-2, "DK": 5e-2, "d1": 3e-4, "d2": 3e-5,
-    "HJ": 1e-8, "HJK": 1e-7, "HKJ": 5e-7, "HK": 2e-6, "h1": 5e-9, "h2": 2e-9, "h3": 5e-10,
+    "DeltaJ": 1e-3,
+    "DeltaJK": 1e-2,
+    "DeltaK": 5e-2,
+    "deltaJ": 3e-4,
+    "deltaK": 5e-3,
+    "PhiJ": 1e-8,
+    "PhiJK": 1e-7,
+    "PhiKJ": 5e-7,
+    "PhiK": 2e-6,
+    "phiJ": 5e-9,
+    "phiJK": 5e-8,
+    "phiK": 5e-7,
+    "DJ": 1e-3,
+    "DJK": 1e-2,
+    "DK": 5e-2,
+    "d1": 3e-4,
+    "d2": 3e-5,
+    "HJ": 1e-8,
+    "HJK": 1e-7,
+    "HKJ": 5e-7,
+    "HK": 2e-6,
+    "h1": 5e-9,
+    "h2": 2e-9,
+    "h3": 5e-10,
 }
 
 
@@ -132,7 +152,13 @@ def test_a_and_s_reductions_coincide_when_their_operator_forms_do():
     a_constants = random_constants("A", seed=3)
     a_constants.update(deltaK=0.0, phiJK=0.0, phiK=0.0)
     rename = {
-        "DeltaJ": "DJ", "DeltaJK": "DJK", "DeltaK": "DK", "PhiJ": "HJ", "PhiJK": "HJK", "PhiKJ": "HKJ", "PhiK": "HK",
+        "DeltaJ": "DJ",
+        "DeltaJK": "DJK",
+        "DeltaK": "DK",
+        "PhiJ": "HJ",
+        "PhiJK": "HJK",
+        "PhiKJ": "HKJ",
+        "PhiK": "HK",
     }
     a_only = ("deltaJ", "deltaK", "phiJ", "phiJK", "phiK")
     s_constants = {rename.get(name, name): value for name, value in a_constants.items() if name not in a_only}
@@ -174,8 +200,13 @@ def _check_derivatives(make_solver, constants, j_values):
         numeric = _central_difference(make_solver, constants, names, j, levels.derivatives)
         for column, name in enumerate(names):
             scale = max(1.0, float(np.abs(levels.derivatives[:, column]).max()))
-            assert_allclose(levels.derivatives[:, column], numeric[:, column], rtol=1e-5, atol=1e-6 * scale,
-                            err_msg=f"J = {j}, dE/d{name}")
+            assert_allclose(
+                levels.derivatives[:, column],
+                numeric[:, column],
+                rtol=1e-5,
+                atol=1e-6 * scale,
+                err_msg=f"J = {j}, dE/d{name}",
+            )
 
 
 @pytest.mark.parametrize("representation", ["Ir", "IIIr"])
@@ -187,8 +218,17 @@ def test_asymmetric_derivatives_match_finite_differences(reduction, representati
 
 @pytest.mark.parametrize("oblate", [False, True])
 def test_symmetric_top_derivatives_match_finite_differences(oblate):
-    constants = {"A" if not oblate else "C": 9000.0 if not oblate else 1500.0, "B": 2500.0, "DJ": 1e-3, "DJK": 2e-2,
-                 "DK": 0.1, "HJ": 1e-8, "HJK": 3e-7, "HKJ": -2e-6, "HK": 5e-6}
+    constants = {
+        "A" if not oblate else "C": 9000.0 if not oblate else 1500.0,
+        "B": 2500.0,
+        "DJ": 1e-3,
+        "DJK": 2e-2,
+        "DK": 0.1,
+        "HJ": 1e-8,
+        "HJK": 3e-7,
+        "HKJ": -2e-6,
+        "HK": 5e-6,
+    }
     _check_derivatives(lambda c: SymmetricSolver(_state(c), oblate=oblate), constants, (0, 1, 5, 20))
 
 
@@ -203,8 +243,16 @@ def test_linear_derivatives_match_finite_differences():
 #: deltaJ and deltaK terms shrink the K = 1 asymmetry element (B - C)/4 - deltaJ x - deltaK until
 #: it changes sign near J = 31, so that J_{1,J} rises above J_{1,J-1}: two levels of different Wang
 #: blocks swap their rigid-rotor order.
-CROSSING = {"A": 9000.0, "B": 2501.0, "C": 2500.0, "DeltaJ": 1e-3, "DeltaJK": 1e-2, "DeltaK": 0.5,
-            "deltaJ": 2e-4, "deltaK": 0.05}
+CROSSING = {
+    "A": 9000.0,
+    "B": 2501.0,
+    "C": 2500.0,
+    "DeltaJ": 1e-3,
+    "DeltaJK": 1e-2,
+    "DeltaK": 0.5,
+    "deltaJ": 2e-4,
+    "deltaK": 0.05,
+}
 J_CROSSING_MAX = 40
 
 

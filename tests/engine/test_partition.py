@@ -41,8 +41,14 @@ A_MHZ, B_MHZ, C_MHZ = 3000.0, 1500.0, 1000.0
 
 
 def _asymmetric(spin_weights=None, states=None) -> Species:
-    return Species("asymmetric", "asymmetric", 40.0, (0.0, 1.0, 0.0),
-                   states or (_state(A=A_MHZ, B=B_MHZ, C=C_MHZ),), spin_weights=spin_weights)
+    return Species(
+        "asymmetric",
+        "asymmetric",
+        40.0,
+        (0.0, 1.0, 0.0),
+        states or (_state(A=A_MHZ, B=B_MHZ, C=C_MHZ),),
+        spin_weights=spin_weights,
+    )
 
 
 def stripp_kirkwood_correction(a: float, b: float, c: float, temperature_k: float) -> float:

@@ -20,16 +20,25 @@ from planner.engine import (
 
 # H2CO ground-state constants recalled from the literature (from memory), with invented 1σ values.
 H2CO_CONSTANTS = {
-    "A": (281970.56, 0.05), "B": (38836.0455, 0.002), "C": (34002.2034, 0.002),
-    "DeltaJ": (0.075295, 2e-5), "DeltaJK": (1.2907, 1e-4), "DeltaK": (19.39, 0.01),
-    "deltaJ": (0.010444, 1e-6), "deltaK": (1.0274, 1e-4),
+    "A": (281970.56, 0.05),
+    "B": (38836.0455, 0.002),
+    "C": (34002.2034, 0.002),
+    "DeltaJ": (0.075295, 2e-5),
+    "DeltaJK": (1.2907, 1e-4),
+    "DeltaK": (19.39, 0.01),
+    "deltaJ": (0.010444, 1e-6),
+    "deltaK": (1.0274, 1e-4),
 }
 
 
 def formaldehyde(**overrides):
     values = dict(
-        name="H2CO", rotor="asymmetric", mass_amu=30.0106, dipole_debye=(2.331, 0, 0),
-        spin_weights=SpinWeights("a", 1.0, 3.0), states=(State("v=0", 0.0, H2CO_CONSTANTS),),
+        name="H2CO",
+        rotor="asymmetric",
+        mass_amu=30.0106,
+        dipole_debye=(2.331, 0, 0),
+        spin_weights=SpinWeights("a", 1.0, 3.0),
+        states=(State("v=0", 0.0, H2CO_CONSTANTS),),
     )
     values.update(overrides)
     return Species(**values)
@@ -38,7 +47,9 @@ def formaldehyde(**overrides):
 def carbon_monoxide(states=None):
     # B, D from memory; σ invented for the test.
     ground = State("v=0", 0.0, {"B": (57635.968, 0.001), "D": (0.1835, 1e-4)})
-    return Species(name="CO", rotor="linear", mass_amu=27.9949, dipole_debye=(0.11011, 0, 0), states=states or (ground,))
+    return Species(
+        name="CO", rotor="linear", mass_amu=27.9949, dipole_debye=(0.11011, 0, 0), states=states or (ground,)
+    )
 
 
 def test_every_column_is_present_and_lines_are_sorted_inside_the_window():
@@ -52,7 +63,10 @@ def test_every_column_is_present_and_lines_are_sorted_inside_the_window():
 
 def test_species_without_dipole_says_why_it_has_no_lines():
     carbon_dioxide = Species(
-        name="CO2", rotor="linear", mass_amu=43.99, dipole_debye=(0, 0, 0),
+        name="CO2",
+        rotor="linear",
+        mass_amu=43.99,
+        dipole_debye=(0, 0, 0),
         states=(State("v=0", 0.0, {"B": (11698.5, 0.0)}),),  # B from memory
     )
     prediction = predict(carbon_dioxide, PredictionRequest(0.0, 1e6, 300.0))
@@ -70,7 +84,10 @@ def test_records_leave_undefined_quantum_numbers_blank_and_put_k_in_ka():
     linear_row = predict(carbon_monoxide(), PredictionRequest(0.0, 2e5, 30.0)).records()[0]
     assert (linear_row["ka_up"], linear_row["kc_up"], linear_row["ka_lo"], linear_row["kc_lo"]) == (None,) * 4
     top = Species(
-        name="CH3CN", rotor="symmetric-prolate", mass_amu=41.03, dipole_debye=(3.92, 0, 0),
+        name="CH3CN",
+        rotor="symmetric-prolate",
+        mass_amu=41.03,
+        dipole_debye=(3.92, 0, 0),
         states=(State("v=0", 0.0, {"A": (158099.0, 0), "B": (9198.899, 0)}),),  # from memory
     )
     rows = predict(top, PredictionRequest(91000.0, 93000.0, 30.0)).records()

@@ -24,7 +24,10 @@ def _state(**constants):
 def carbon_monoxide():
     """CO X¹Σ⁺ v=0: B = 57635.968 MHz, D = 0.18350 MHz, μ = 0.11011 D (from memory)."""
     return Species(
-        name="CO", rotor="linear", mass_amu=27.9949, dipole_debye=(0.11011, 0, 0),
+        name="CO",
+        rotor="linear",
+        mass_amu=27.9949,
+        dipole_debye=(0.11011, 0, 0),
         states=_state(B=57635.968, D=0.18350),
     )
 
@@ -33,7 +36,10 @@ def carbon_monoxide():
 def carbonyl_sulfide():
     """OCS v=0: B = 6081.4921 MHz, D = 1.3011 kHz, μ = 0.7152 D (from memory)."""
     return Species(
-        name="OCS", rotor="linear", mass_amu=59.967, dipole_debye=(0.7152, 0, 0),
+        name="OCS",
+        rotor="linear",
+        mass_amu=59.967,
+        dipole_debye=(0.7152, 0, 0),
         states=_state(B=6081.4921, D=0.0013011),
     )
 
@@ -42,7 +48,10 @@ def carbonyl_sulfide():
 def hydrogen_cyanide():
     """HCN v=0: B = 44315.9757 MHz, D = 0.0872 MHz, μ = 2.985 D (from memory)."""
     return Species(
-        name="HCN", rotor="linear", mass_amu=27.0109, dipole_debye=(2.985, 0, 0),
+        name="HCN",
+        rotor="linear",
+        mass_amu=27.0109,
+        dipole_debye=(2.985, 0, 0),
         states=_state(B=44315.9757, D=0.0872),
     )
 
@@ -54,7 +63,10 @@ def methyl_cyanide():
     A = 158099 MHz does not enter ΔK = 0 lines; C3 spin weights K = 3n : other = 2 : 1.
     """
     return Species(
-        name="CH3CN", rotor="symmetric-prolate", mass_amu=41.027, dipole_debye=(3.922, 0, 0),
+        name="CH3CN",
+        rotor="symmetric-prolate",
+        mass_amu=41.027,
+        dipole_debye=(3.922, 0, 0),
         spin_weights=SpinWeights("C3", 2.0, 1.0),
         states=_state(A=158099.0, B=9198.899, DJ=0.003808, DJK=0.17740),
     )
@@ -64,7 +76,10 @@ def methyl_cyanide():
 def propyne():
     """CH3CCH v=0: B = 8545.877 MHz, DJ = 2.94 kHz, DJK = 0.1635 MHz, μ = 0.784 D (from memory)."""
     return Species(
-        name="CH3CCH", rotor="symmetric-prolate", mass_amu=40.031, dipole_debye=(0.784, 0, 0),
+        name="CH3CCH",
+        rotor="symmetric-prolate",
+        mass_amu=40.031,
+        dipole_debye=(0.784, 0, 0),
         states=_state(A=158590.0, B=8545.877, DJ=0.00294, DJK=0.1635),
     )
 
@@ -73,7 +88,10 @@ def propyne():
 def phosphine():
     """PH3 v=0 (oblate): B = 133480.13 MHz, DJ = 3.9494 MHz, μ = 0.574 D along c (from memory)."""
     return Species(
-        name="PH3", rotor="symmetric-oblate", mass_amu=33.997, dipole_debye=(0, 0, 0.574),
+        name="PH3",
+        rotor="symmetric-oblate",
+        mass_amu=33.997,
+        dipole_debye=(0, 0, 0.574),
         states=_state(C=117488.0, B=133480.13, DJ=3.9494),
     )
 
@@ -85,11 +103,20 @@ def formaldehyde():
     ΔK = 19.39, δJ = 0.010444, δK = 1.0274 MHz; μa = 2.331 D; ortho (Ka odd) : para = 3 : 1.
     """
     return Species(
-        name="H2CO", rotor="asymmetric", mass_amu=30.0106, dipole_debye=(2.331, 0, 0),
+        name="H2CO",
+        rotor="asymmetric",
+        mass_amu=30.0106,
+        dipole_debye=(2.331, 0, 0),
         spin_weights=SpinWeights("a", 1.0, 3.0),
         states=_state(
-            A=281970.56, B=38836.0455, C=34002.2034, DeltaJ=0.075295, DeltaJK=1.2907,
-            DeltaK=19.39, deltaJ=0.010444, deltaK=1.0274,
+            A=281970.56,
+            B=38836.0455,
+            C=34002.2034,
+            DeltaJ=0.075295,
+            DeltaJK=1.2907,
+            DeltaK=19.39,
+            deltaJ=0.010444,
+            deltaK=1.0274,
         ),
     )
 
@@ -102,11 +129,20 @@ def sulfur_dioxide():
     are missing (two ¹⁶O bosons, weight 0).
     """
     return Species(
-        name="SO2", rotor="asymmetric", mass_amu=63.962, dipole_debye=(0, 1.633, 0),
+        name="SO2",
+        rotor="asymmetric",
+        mass_amu=63.962,
+        dipole_debye=(0, 1.633, 0),
         spin_weights=SpinWeights("b", 1.0, 0.0),
         states=_state(
-            A=60778.552, B=10318.0735, C=8799.7033, DeltaJ=0.0066, DeltaJK=-0.1169,
-            DeltaK=2.5907, deltaJ=0.0017, deltaK=0.02533,
+            A=60778.552,
+            B=10318.0735,
+            C=8799.7033,
+            DeltaJ=0.0066,
+            DeltaJK=-0.1169,
+            DeltaK=2.5907,
+            deltaJ=0.0017,
+            deltaK=0.02533,
         ),
     )
 
@@ -118,7 +154,12 @@ def _lines(species, fmin=0.0, fmax=1.2e6, temperature=300.0):
 def _find(records, j_up, j_lo, ka_up=None, kc_up=None, ka_lo=None, kc_lo=None):
     for row in records:
         if (row["j_up"], row["ka_up"], row["kc_up"], row["j_lo"], row["ka_lo"], row["kc_lo"]) == (
-            j_up, ka_up, kc_up, j_lo, ka_lo, kc_lo
+            j_up,
+            ka_up,
+            kc_up,
+            j_lo,
+            ka_lo,
+            kc_lo,
         ):
             return row
     raise AssertionError(f"line {j_up} {ka_up} {kc_up} <- {j_lo} {ka_lo} {kc_lo} not predicted")

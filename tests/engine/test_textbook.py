@@ -171,8 +171,9 @@ def test_spin_weights_enter_the_intensity_but_not_einstein_a():
     request = PredictionRequest(1000.0, 60000.0, 10.0)
     tables = {}
     for weights in (None, SpinWeights("b", 1.0, 3.0)):
-        species = Species("top", "asymmetric", 40.0, (0.0, 1.0, 0.0), (State("v=0", 0.0, constants),),
-                          spin_weights=weights)
+        species = Species(
+            "top", "asymmetric", 40.0, (0.0, 1.0, 0.0), (State("v=0", 0.0, constants),), spin_weights=weights
+        )
         prediction = predict(species, request)
         tables[weights is None] = (prediction.records(), prediction.partition_function["top"])
     (plain, q_plain), (weighted, q_weighted) = tables[True], tables[False]
