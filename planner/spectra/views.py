@@ -41,28 +41,31 @@ def spectrum_page(request):
 
 
 def spectrum_csv(request):
-    try:
-        form, species, prediction = _prediction_from_query(request)
-    except CatalogueError as error:
-        return HttpResponse(str(error), status=503, content_type="text/plain; charset=utf-8")
-    if prediction is None:
-        return _bad_query(form)
-    buffer = io.StringIO()
-    prediction_csv(prediction, buffer)
-    response = HttpResponse(buffer.getvalue(), content_type="text/csv; charset=utf-8")
-    response["Content-Disposition"] = f'attachment; filename="{_file_stem(species, form)}.csv"'
-    return response
+    def respond(prediction, form):
+        buffer = io.StringIO()
+        prediction_csv(prediction, buffer)
+        return HttpResponse(buffer.getvalue(), content_type="text/csv; charset=utf-8")
+
+    return _download(request, respond, "csv")
 
 
 def spectrum_json(request):
+    def respond(prediction, form):
+        return JsonResponse(prediction_json(prediction, form.request()), json_dumps_params={"allow_nan": False})
+
+    return _download(request, respond, "json")
+
+
+def _download(request, respond, extension: str):
+    """The prediction of the query as a file, or a plain-text 400/503 naming the problem."""
     try:
         form, species, prediction = _prediction_from_query(request)
     except CatalogueError as error:
         return HttpResponse(str(error), status=503, content_type="text/plain; charset=utf-8")
     if prediction is None:
         return _bad_query(form)
-    response = JsonResponse(prediction_json(prediction, form.request()), json_dumps_params={"allow_nan": False})
-    response["Content-Disposition"] = f'attachment; filename="{_file_stem(species, form)}.json"'
+    response = respond(prediction, form)
+    response["Content-Disposition"] = f'attachment; filename="{_file_stem(species, form)}.{extension}"'
     return response
 
 

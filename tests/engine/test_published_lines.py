@@ -278,6 +278,23 @@ def test_einstein_a_of_ground_lines(request, fixture, j_up, frequency_window, pu
     assert_allclose(_find(records, j_up, j_up - 1)["einstein_a_s"], published_a, rtol=2e-3)
 
 
+@pytest.mark.parametrize(
+    "fixture, upper, lower, published_a",
+    [
+        # All from memory; the dipole moments carry 4 digits, hence rtol 3e-3.
+        ("formaldehyde", (2, 1, 2), (1, 1, 1), 5.30e-5),
+        ("formaldehyde", (3, 0, 3), (2, 0, 2), 2.818e-4),
+        ("formaldehyde", (3, 2, 2), (2, 2, 1), 1.571e-4),
+        ("sulfur_dioxide", (3, 1, 3), (2, 0, 2), 1.006e-5),
+        ("methyl_cyanide", (5, 0, None), (4, 0, None), 6.33e-5),
+    ],
+)
+def test_einstein_a_of_asymmetric_and_symmetric_top_lines(request, fixture, upper, lower, published_a):
+    records = _lines(request.getfixturevalue(fixture), 60000, 300000, temperature=100)
+    row = _find(records, upper[0], lower[0], upper[1], upper[2], lower[1], lower[2])
+    assert_allclose(row["einstein_a_s"], published_a, rtol=3e-3)
+
+
 def test_formaldehyde_einstein_a_follows_line_strength(formaldehyde):
     # Textbook identity: 1_01 – 0_00 has S = 1, so A = 1.16395e-20 ν³ μa² / 3 (shared/PHYSICS.md).
     row = _find(_lines(formaldehyde), 1, 0, 0, 1, 0, 0)
