@@ -54,9 +54,6 @@ from .species import A_REDUCTION_PARAMETERS, S_REDUCTION_PARAMETERS
 
 #: Which constant lies along the representation's x, y, z axes.
 REPRESENTATION_AXES = {"Ir": ("B", "C", "A"), "IIIr": ("A", "B", "C")}
-#: Highest |ΔK| any supported Hamiltonian couples (h3 of the S-reduction).
-MAX_DELTA_K = 6
-BANDS = MAX_DELTA_K // 2 + 1  # band offsets 0..3 inside a Wang block
 
 
 def parameter_names(reduction: str) -> tuple[str, ...]:
@@ -153,47 +150,6 @@ def wang_blocks(j: int) -> list[WangBlock]:
             if len(k_values):
                 blocks.append(WangBlock(j, parity, sign, k_values))
     return blocks
-
-
-def wang_bands(block: WangBlock, elements: dict[int, np.ndarray]) -> np.ndarray:
-    """Operator bands of a Wang block.
-
-    Returns an array (n_params, BANDS, n): ``[p, m, i]`` is the element between
-    basis functions i and i+m (K_i and K_i + 2m) of operator O_p; entries with
-    i + m ≥ n are zero.
-    """
-    j, k, s = block.j, block.k_values, block.sign
-    n = block.size
-    n_params = elements[0].shape[0]
-    bands = np.zeros((n_params, BANDS, n))
-    norm = np.where(k == 0, 0.5, 1.0 / np.sqrt(2.0))
-    for m in range(BANDS):
-        if m >= n:
-            break
-        rows = np.arange(n - m)
-        k_low = k[rows]
-        d = 2 * m
-        main = elements[d][:, k_low + j] if d in elements and elements[d].shape[1] else 0.0
-        value = np.zeros((n_params, n - m)) + main
-        # Coupling of K_i + 2m with −K_i through ΔK = 2K_i + 2m (only near K = 0);
-        # for K_i = 0 that element is the main one again, hence the factor 2.
-        d_cross = 2 * k_low + d
-        for i in np.nonzero(d_cross <= MAX_DELTA_K)[0]:
-            value[:, i] += s * elements[int(d_cross[i])][:, -k_low[i] + j]
-        bands[:, m, : n - m] = 2.0 * norm[rows] * norm[rows + m] * value
-    return bands
-
-
-def dense_from_bands(band: np.ndarray) -> np.ndarray:
-    """Symmetric matrix from its upper bands ``band[m, i]`` = H[i, i+m]."""
-    n = band.shape[1]
-    matrix = np.diag(band[0])
-    for m in range(1, min(BANDS, n)):
-        off = band[m, : n - m]
-        idx = np.arange(n - m)
-        matrix[idx, idx + m] = off
-        matrix[idx + m, idx] = off
-    return matrix
 
 
 @dataclass(frozen=True)

@@ -30,7 +30,7 @@ import numpy as np
 
 from .hamiltonian import wang_pair_matrix
 from .levels import BlockSolution
-from .wigner import clebsch_gordan_rank1
+from .wigner import three_j_rank1
 
 #: Molecule-fixed axis (x, y, z of the representation) of each principal axis.
 PRINCIPAL_TO_REPRESENTATION = {"Ir": {"a": "z", "b": "x", "c": "y"}, "IIIr": {"a": "x", "b": "y", "c": "z"}}
@@ -46,13 +46,9 @@ def connected_block(axis: str, delta_j: int, parity: int, sign: int) -> tuple[in
 
 
 def direction_cosine(j: int, jp: int, k: np.ndarray, q: int) -> np.ndarray:
-    """M_q[K, K − q] = (−1)^(J−K) (J 1 J′; −K q K − q), vectorised over K [dimensionless].
-
-    With the phase of Eq. 2.19 of [3] folded in this is
-    (−1)^(1+q) ⟨J −K; 1 q | J′ −K+q⟩ / √(2J′+1).
-    """
-    sign = -1.0 if q == 0 else 1.0
-    return sign * clebsch_gordan_rank1(j, -np.asarray(k), q, jp) / np.sqrt(2 * jp + 1)
+    """M_q[K, K − q] = (−1)^(J−K) (J 1 J′; −K q K − q), vectorised over K [dimensionless]."""
+    k = np.asarray(k)
+    return np.where((j - k) % 2 == 0, 1.0, -1.0) * three_j_rank1(j, jp, k, q)
 
 
 def full_axis_operator(axis: str, j: int, jp: int) -> np.ndarray:

@@ -8,7 +8,7 @@ every physical constraint, raising :class:`SpeciesError` that names the field.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Mapping
 
@@ -173,7 +173,6 @@ class Species:
     spin_weights: SpinWeights | None = None
     source: str = ""
     notes: str = ""
-    extra: Mapping[str, object] = field(default_factory=dict, compare=False)
 
     def __post_init__(self):
         object.__setattr__(self, "dipole_debye", tuple(float(x) for x in self.dipole_debye))
