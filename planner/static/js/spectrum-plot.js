@@ -76,4 +76,12 @@
 
   draw();
   if (logBox) { logBox.addEventListener("change", draw); }
+  // On paper the plot gets the printable width of an A4/Letter landscape page
+  // (about 1000 CSS px), then goes back to following the window.
+  window.addEventListener("beforeprint", function () {
+    Plotly.relayout(holder, {width: 1000, height: 300});
+  });
+  window.addEventListener("afterprint", function () {
+    Plotly.relayout(holder, {width: null, height: null, autosize: true});
+  });
 })();
