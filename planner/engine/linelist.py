@@ -29,11 +29,14 @@ LINE_COLUMNS: dict[str, tuple[str, str]] = {
     "eu_cm1": ("f8", "upper-level energy above the species' lowest level [cm^-1]"),
     "el_k": ("f8", "lower-level energy / k [K]"),
     "eu_k": ("f8", "upper-level energy / k [K]"),
-    "line_strength": ("f8", "line strength S of the dipole component (dimensionless)"),
-    "s_mu2_d2": ("f8", "S·μ² [D^2]"),
+    "line_strength": ("f8", "line strength S of the dipole component, per K component of a symmetric top"),
+    "s_mu2_d2": ("f8", "S·μ², per K component of a symmetric top [D^2]"),
     "spin_weight": ("f8", "nuclear-spin statistical weight g_I of the levels"),
     "einstein_a_s": ("f8", "Einstein A coefficient [s^-1]"),
-    "intensity_nm2mhz": ("f8", "integrated intensity per molecule at the temperature [nm^2 MHz]"),
+    "intensity_nm2mhz": (
+        "f8",
+        "integrated intensity per molecule at the temperature, spin weight and ±K degeneracy included [nm^2 MHz]",
+    ),
     "doppler_fwhm_mhz": ("f8", "Doppler full width at half maximum at the temperature [MHz]"),
 }
 
