@@ -101,80 +101,103 @@ def rigid_j_lower_bound(state: State, vibrational_mhz: float, temperature_k: flo
     return int(np.argmax(term < Q_TOLERANCE * q_high))
 
 
+@dataclass
+class _Climb:
+    """What the states of one species share while their ladders are climbed."""
+
+    species: Species
+    request: PredictionRequest
+    kt_mhz: float
+    line_bound_factor: float  # 4.16e-5 · g_max · μ_max² · ν_max (1 − e^(−hν_max/kT)) [nm² MHz]
+    cap: int
+    hard_cap: int
+    partition: float = 0.0
+    bound_max: float = 0.0
+
+    @property
+    def floor(self) -> float:
+        return max(self.request.min_intensity_nm2mhz, self.request.relative_floor * self.bound_max)
+
+
 def climb(species: Species, request: PredictionRequest) -> tuple[list[StateLadder], float, float]:
     """Solve every state's levels as far as the request needs.
 
     Returns the ladders, Q(T) and the effective intensity floor [nm² MHz].
     """
     kt_mhz = request.temperature_k * MHZ_PER_K
-    mu_max2 = max(mu * mu for mu in species.dipole_debye)
     nu = request.fmax_mhz
-    window_factor = nu * -np.expm1(-nu / kt_mhz)
     k_degeneracy = 1.0 if species.rotor in ("linear", "asymmetric") else 2.0
-    g_max = k_degeneracy * (max(species.spin_weights.even, species.spin_weights.odd) if species.spin_weights else 1.0)
-    hard_cap = ASYMMETRIC_J_CAP if species.rotor == "asymmetric" else CLOSED_FORM_J_CAP
-    cap = j_cap_for(species, request)
-    origin_cm1 = min(s.energy_cm1 for s in species.states)
-
-    partition = 0.0
-    bound_max = 0.0
-    ladders = []
     weights = species.spin_weights
-    weight_ratio = max(weights.even, weights.odd) / min(w for w in (weights.even, weights.odd) if w) if weights else 1.0
+    g_max = k_degeneracy * (max(weights.even, weights.odd) if weights else 1.0)
+    mu_max2 = max(mu * mu for mu in species.dipole_debye)
+    shared = _Climb(
+        species,
+        request,
+        kt_mhz,
+        line_bound_factor=INTENSITY_PREFACTOR * g_max * mu_max2 * nu * -np.expm1(-nu / kt_mhz),
+        cap=j_cap_for(species, request),
+        hard_cap=ASYMMETRIC_J_CAP if species.rotor == "asymmetric" else CLOSED_FORM_J_CAP,
+    )
+    origin_cm1 = min(s.energy_cm1 for s in species.states)
+    ladders = []
     for state in sorted(species.states, key=lambda s: s.energy_cm1):
-        if species.rotor == "asymmetric" and cap >= hard_cap:
-            vibrational_mhz = (state.energy_cm1 - origin_cm1) * MHZ_PER_CM1
-            at_least = rigid_j_lower_bound(state, vibrational_mhz, request.temperature_k, weight_ratio)
-            if at_least > hard_cap:
+        vibrational_mhz = (state.energy_cm1 - origin_cm1) * MHZ_PER_CM1
+        if species.rotor == "asymmetric" and shared.cap >= shared.hard_cap:
+            _refuse_hopeless(shared, state, vibrational_mhz)
+        ladders.append(_climb_state(shared, state, vibrational_mhz))
+    return ladders, shared.partition, shared.floor
+
+
+def _refuse_hopeless(shared: _Climb, state: State, vibrational_mhz: float) -> None:
+    """Refuse before any diagonalisation when even the rigid rotor needs J past the cap."""
+    weights = shared.species.spin_weights
+    weight_ratio = max(weights.even, weights.odd) / min(w for w in (weights.even, weights.odd) if w) if weights else 1.0
+    at_least = rigid_j_lower_bound(state, vibrational_mhz, shared.request.temperature_k, weight_ratio)
+    if at_least > shared.hard_cap:
+        raise EngineLimitError(
+            f"{shared.species.name} ({state.label}) at {shared.request.temperature_k:g} K needs levels above "
+            f"J = {at_least}, beyond the engine's limit of J = {shared.hard_cap} for an asymmetric rotor. "
+            "Lower the temperature."
+        )
+
+
+def _climb_state(shared: _Climb, state: State, vibrational_mhz: float) -> StateLadder:
+    """Solve one state J by J until the stopping rule of the module docstring holds."""
+    species, request, kt_mhz = shared.species, shared.request, shared.kt_mhz
+    solver = solver_for(species, state)
+    ladder = StateLadder(state, tuple(solver.parameter_names), vibrational_mhz)
+    previous_term = previous_bound = previous_low = None
+    j = 0
+    while True:
+        rung = solver.solve(j)
+        level_weights = level_spin_weights(species, rung)
+        energies = vibrational_mhz + rung.energies_mhz
+        term = float(np.sum(level_weights * rung.k_degeneracy * (2 * j + 1) * np.exp(-energies / kt_mhz)))
+        ladder.rungs.append(rung)
+        ladder.spin_weights.append(level_weights)
+        ladder.partition_sum += term
+        shared.partition += term
+        low = float(energies.min())
+        if previous_low is not None and low < previous_low:
+            raise EngineLimitError(
+                f"{species.name} ({state.label}) at {request.temperature_k:g} K needs levels up to J > {j}, "
+                f"but there the lowest level of J = {j} lies below that of J = {j - 1}: the "
+                "centrifugal-distortion series of these constants has broken down. Lower the temperature, "
+                "or add the higher-order constants that hold the levels up."
+            )
+        bound = shared.line_bound_factor * (2 * j + 1) * np.exp(-low / kt_mhz) / shared.partition
+        shared.bound_max = max(shared.bound_max, bound)
+        past_peak = previous_term is not None and term < previous_term and bound < previous_bound
+        if past_peak and term < Q_TOLERANCE * shared.partition and bound < shared.floor:
+            return ladder
+        if j >= shared.cap:
+            ladder.truncated = True
+            if shared.cap >= shared.hard_cap:
                 raise EngineLimitError(
                     f"{species.name} ({state.label}) at {request.temperature_k:g} K needs levels above "
-                    f"J = {at_least}, beyond the engine's limit of J = {hard_cap} for an asymmetric rotor. "
-                    "Lower the temperature."
+                    f"J = {shared.hard_cap}, the engine's limit for a {species.rotor} rotor. Lower the "
+                    "temperature, raise the intensity floor, or narrow the window."
                 )
-        solver = solver_for(species, state)
-        ladder = StateLadder(state, tuple(solver.parameter_names), (state.energy_cm1 - origin_cm1) * MHZ_PER_CM1)
-        previous_term = previous_bound = previous_low = None
-        j = 0
-        while True:
-            rung = solver.solve(j)
-            level_weights = level_spin_weights(species, rung)
-            energies = ladder.vibrational_mhz + rung.energies_mhz
-            term = float(np.sum(level_weights * rung.k_degeneracy * (2 * j + 1) * np.exp(-energies / kt_mhz)))
-            ladder.rungs.append(rung)
-            ladder.spin_weights.append(level_weights)
-            ladder.partition_sum += term
-            partition += term
-            low = float(energies.min())
-            if previous_low is not None and low < previous_low:
-                raise EngineLimitError(
-                    f"{species.name} ({state.label}) at {request.temperature_k:g} K needs levels up to J > {j}, "
-                    f"but there the lowest level of J = {j} lies below that of J = {j - 1}: the "
-                    "centrifugal-distortion series of these constants has broken down. Lower the temperature, "
-                    "or add the higher-order constants that hold the levels up."
-                )
-            bound = INTENSITY_PREFACTOR * g_max * (2 * j + 1) * mu_max2 * np.exp(-low / kt_mhz) * window_factor
-            bound /= partition
-            bound_max = max(bound_max, bound)
-            floor = max(request.min_intensity_nm2mhz, request.relative_floor * bound_max)
-            past_peak = previous_term is not None and term < previous_term and bound < previous_bound
-            if past_peak and term < Q_TOLERANCE * partition and bound < floor:
-                break
-            if j >= cap:
-                ladder.truncated = True
-                if cap >= hard_cap:
-                    raise EngineLimitError(
-                        f"{species.name} ({state.label}) at {request.temperature_k:g} K needs levels above "
-                        f"J = {hard_cap}, the engine's limit for a {species.rotor} rotor. Lower the temperature, "
-                        "raise the intensity floor, or narrow the window."
-                    )
-                break
-            previous_term, previous_bound, previous_low = term, bound, low
-            j += 1
-        ladders.append(ladder)
-    floor = max(request.min_intensity_nm2mhz, request.relative_floor * bound_max)
-    return ladders, partition, floor
-
-
-def energies_cm1_and_k(energies_mhz: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Energies [MHz] → ([cm⁻¹], [K])."""
-    return energies_mhz / MHZ_PER_CM1, energies_mhz / MHZ_PER_K
+            return ladder
+        previous_term, previous_bound, previous_low = term, bound, low
+        j += 1
