@@ -43,14 +43,32 @@ def in_block(j: int, ka: int, kc: int, parity: int, sign: int, representation: s
 
 @lru_cache(maxsize=4096)
 def block_labels(j: int, parity: int, sign: int, representation: str) -> tuple[np.ndarray, np.ndarray]:
-    """(Ka, Kc) of a block's levels in order of increasing τ = Ka − Kc (= increasing energy)."""
-    members = [(ka, kc) for ka, kc in all_labels(j) if in_block(j, ka, kc, parity, sign, representation)]
-    members.sort(key=lambda label: label[0] - label[1])
-    ka = np.array([m[0] for m in members], dtype=np.int64)
-    kc = np.array([m[1] for m in members], dtype=np.int64)
+    """(Ka, Kc) of a block's levels in order of increasing τ = Ka − Kc (= increasing energy).
+
+    The block's K values are its Ka (Ir) or Kc (IIIr); Ka + Kc is fixed within a
+    block (J or J + 1, see the module docstring), so τ follows K directly: it
+    rises with Ka in Ir and falls with Kc in IIIr.  :func:`members` gives the
+    same sets by testing every label of J.
+    """
+    first = parity if parity == 1 or sign == 1 else 2
+    k = np.arange(first, j + 1, 2)
+    if representation == "Ir":
+        ka, kc = k, (j if sign == 1 else j + 1) - k
+    elif representation == "IIIr":
+        total = j + ((parity == 1) == (sign == 1))  # Ka + Kc
+        kc = k[::-1].copy()
+        ka = total - kc
+    else:
+        raise ValueError(f"representation must be 'Ir' or 'IIIr', got {representation!r}")
     ka.setflags(write=False)
     kc.setflags(write=False)
     return ka, kc
+
+
+def members(j: int, parity: int, sign: int, representation: str) -> list[tuple[int, int]]:
+    """The block's (Ka, Kc) by testing every label of J, sorted by τ (the definition)."""
+    found = [(ka, kc) for ka, kc in all_labels(j) if in_block(j, ka, kc, parity, sign, representation)]
+    return sorted(found, key=lambda label: label[0] - label[1])
 
 
 def spin_symmetry_even(ka: np.ndarray, kc: np.ndarray, axis: str) -> np.ndarray:

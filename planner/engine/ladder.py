@@ -40,7 +40,7 @@ class StateLadder:
     """Levels of one state up to ``j_max``, flattened, with per-J pieces kept."""
 
     state: State
-    parameter_names: tuple[str, ...]
+    parameter_names: tuple[str, ...]  # the columns of each rung's derivatives
     vibrational_mhz: float
     rungs: list[JLevels] = field(default_factory=list)
     spin_weights: list[np.ndarray] = field(default_factory=list)
@@ -164,8 +164,10 @@ def _refuse_hopeless(shared: _Climb, state: State, vibrational_mhz: float) -> No
 def _climb_state(shared: _Climb, state: State, vibrational_mhz: float) -> StateLadder:
     """Solve one state J by J until the stopping rule of the module docstring holds."""
     species, request, kt_mhz = shared.species, shared.request, shared.kt_mhz
-    solver = solver_for(species, state)
-    ladder = StateLadder(state, tuple(solver.parameter_names), vibrational_mhz)
+    # Only constants with a 1σ move the frequency σ: the others need no ∂E/∂p.
+    uncertain = tuple(name for name, (_, sigma) in state.constants_mhz.items() if sigma > 0)
+    solver = solver_for(species, state, uncertain)
+    ladder = StateLadder(state, solver.derivative_names, vibrational_mhz)
     previous_term = previous_bound = previous_low = None
     j = 0
     while True:

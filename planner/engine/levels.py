@@ -48,7 +48,7 @@ class JLevels:
     kc: np.ndarray  # −1 when undefined
     energies_mhz: np.ndarray
     k_degeneracy: np.ndarray  # 2 for the ±K pair of a symmetric top, else 1
-    derivatives: np.ndarray  # (n_levels, n_params) ∂E/∂p [MHz per unit of p]
+    derivatives: np.ndarray  # (n_levels, n_derivatives) ∂E/∂p [MHz per unit of p], solver.derivative_names
     blocks: list[BlockSolution] = field(default_factory=list)
 
     @property
@@ -61,8 +61,9 @@ class LinearSolver:
 
     parameter_names = LINEAR_PARAMETERS
 
-    def __init__(self, state: State):
+    def __init__(self, state: State, derivative_names: tuple[str, ...] | None = None):
         self.values = np.array([state.value(p) for p in self.parameter_names])
+        self.derivative_names, self._wanted = _wanted(self.parameter_names, derivative_names)
 
     def solve(self, j: int) -> JLevels:
         x = float(j * (j + 1))
@@ -73,7 +74,7 @@ class LinearSolver:
             kc=np.array([-1]),
             energies_mhz=basis @ self.values,
             k_degeneracy=np.array([1.0]),
-            derivatives=basis,
+            derivatives=basis[:, self._wanted],
         )
 
 
@@ -84,9 +85,10 @@ class SymmetricSolver:
     + HKJ x K⁴ + HK K⁶; oblate: C in place of A (Gordy & Cook 1984, Ch. 8).
     """
 
-    def __init__(self, state: State, oblate: bool):
+    def __init__(self, state: State, oblate: bool, derivative_names: tuple[str, ...] | None = None):
         self.parameter_names = OBLATE_PARAMETERS if oblate else PROLATE_PARAMETERS
         self.values = np.array([state.value(p) for p in self.parameter_names])
+        self.derivative_names, self._wanted = _wanted(self.parameter_names, derivative_names)
 
     def solve(self, j: int) -> JLevels:
         x = float(j * (j + 1))
@@ -103,18 +105,21 @@ class SymmetricSolver:
             kc=np.full(j + 1, -1),
             energies_mhz=basis @ self.values,
             k_degeneracy=np.where(k > 0, 2.0, 1.0),
-            derivatives=basis,
+            derivatives=basis[:, self._wanted],
         )
 
 
 class AsymmetricSolver:
     """Watson A- or S-reduced Hamiltonian diagonalised block by block (see hamiltonian.py)."""
 
-    def __init__(self, state: State, reduction: str, representation: str):
+    def __init__(
+        self, state: State, reduction: str, representation: str, derivative_names: tuple[str, ...] | None = None
+    ):
         self.reduction = reduction
         self.representation = representation
         self.parameter_names = hamiltonian.parameter_names(reduction)
         self.values = np.array([state.value(p) for p in self.parameter_names])
+        self.derivative_names, self._wanted = _wanted(self.parameter_names, derivative_names)
 
     def block_matrices(self, j: int):
         """(elements, [(WangIndex, block matrix), ...]) for the Wang blocks of J."""
@@ -135,9 +140,12 @@ class AsymmetricSolver:
             ka, kc = block_labels(j, block.parity, block.sign, self.representation)
             solutions.append(BlockSolution(j, block.parity, block.sign, block.k_values, values, vectors, first, index))
             columns = slice(first, first + len(values))
-            scaled = vectors * (index.scale * np.sqrt(0.5))[:, None]
-            full_vectors[index.plus, columns] += scaled
-            full_vectors[index.minus, columns] += block.sign * scaled
+            # u(±K) = v/√2 · (1, s) for K > 0 and u(0) = v: plain assignments, blocks own disjoint columns.
+            scaled = vectors * np.sqrt(0.5)
+            full_vectors[index.minus, columns] = block.sign * scaled
+            full_vectors[index.plus, columns] = scaled
+            if block.k_values[0] == 0:
+                full_vectors[index.plus[0], columns] = vectors[0]
             kas.append(ka)
             kcs.append(kc)
             energies.append(values)
@@ -148,7 +156,7 @@ class AsymmetricSolver:
             kc=np.concatenate(kcs),
             energies_mhz=np.concatenate(energies),
             k_degeneracy=np.ones(first),
-            derivatives=_expectation_values(elements, full_vectors),
+            derivatives=_expectation_values({d: c[self._wanted] for d, c in elements.items()}, full_vectors),
             blocks=solutions,
         )
 
@@ -161,17 +169,28 @@ def _expectation_values(elements: dict[int, np.ndarray], vectors: np.ndarray) ->
     n = vectors.shape[0]
     result = elements[0] @ (vectors * vectors)
     for d, coefficients in elements.items():
-        if d and coefficients.shape[1]:
+        if d and coefficients.shape[1] and coefficients.any():  # the A-reduction has no ΔK = 4, 6 terms
             result += 2.0 * coefficients @ (vectors[: n - d] * vectors[d:])
     return result.T
 
 
-def solver_for(species, state: State):
-    """The level solver for one state of a species."""
+def _wanted(names: tuple[str, ...], derivative_names: tuple[str, ...] | None) -> tuple[tuple[str, ...], np.ndarray]:
+    """The parameters whose ∂E/∂p a solver returns (all by default) and their column indices."""
+    if derivative_names is None:
+        return tuple(names), np.arange(len(names))
+    unknown = set(derivative_names) - set(names)
+    if unknown:
+        raise ValueError(f"no derivative for unknown parameters {sorted(unknown)}; known: {', '.join(names)}")
+    chosen = tuple(p for p in names if p in derivative_names)
+    return chosen, np.array([names.index(p) for p in chosen], dtype=np.intp)
+
+
+def solver_for(species, state: State, derivative_names: tuple[str, ...] | None = None):
+    """The level solver for one state of a species; ∂E/∂p for ``derivative_names`` (default all)."""
     if species.rotor == "linear":
-        return LinearSolver(state)
+        return LinearSolver(state, derivative_names)
     if species.rotor == "symmetric-prolate":
-        return SymmetricSolver(state, oblate=False)
+        return SymmetricSolver(state, oblate=False, derivative_names=derivative_names)
     if species.rotor == "symmetric-oblate":
-        return SymmetricSolver(state, oblate=True)
-    return AsymmetricSolver(state, species.reduction, species.representation)
+        return SymmetricSolver(state, oblate=True, derivative_names=derivative_names)
+    return AsymmetricSolver(state, species.reduction, species.representation, derivative_names)

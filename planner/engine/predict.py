@@ -98,9 +98,8 @@ def _line_table(
     j = ladder.flat_j()
     ka, kc = ladder.flat("ka"), ladder.flat("kc")
     sigma = np.array([ladder.state.sigma(p) for p in ladder.parameter_names])
-    uncertain = np.nonzero(sigma)[0]  # constants with σ = 0 add nothing to σν
     # (n_params, n_levels): gathering along the contiguous axis is several times faster than by rows.
-    scaled = (np.concatenate([r.derivatives[:, uncertain] for r in ladder.rungs]) * sigma[uncertain]).T.copy()
+    scaled = (np.concatenate([r.derivatives for r in ladder.rungs]) * sigma).T.copy()
 
     # Uncorrelated propagation: σν² = Σ_p (∂ν/∂p · σ_p)², ∂ν/∂p = ∂E_u/∂p − ∂E_l/∂p.
     difference = np.take(scaled, up, axis=1)

@@ -19,7 +19,7 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from planner.engine.labels import all_labels
+from planner.engine.labels import all_labels, block_labels, members
 from planner.engine.levels import AsymmetricSolver
 from planner.engine.species import State
 
@@ -162,3 +162,13 @@ def test_j3_closed_forms_sum_to_the_trace():
     """Sum of the 2J+1 levels = trace = (A+B+C) J(J+1)(2J+1)/3 (textbook identity: Tr Jg^2 = J(J+1)(2J+1)/3)."""
     a, b, c = CONSTANT_SETS["generic"]
     assert sum(closed_form_j3(a, b, c).values()) == pytest.approx((a + b + c) * 3 * 4 * 7 / 3, rel=1e-14)
+
+
+@pytest.mark.parametrize("representation", ["Ir", "IIIr"])
+def test_closed_form_block_labels_equal_the_membership_definition(representation):
+    # Two methods: the closed form used by the solver and the test of every label of J.
+    for j in range(0, 31):
+        for parity in (0, 1):
+            for sign in (1, -1):
+                ka, kc = block_labels(j, parity, sign, representation)
+                assert list(zip(ka.tolist(), kc.tolist())) == members(j, parity, sign, representation)
