@@ -107,3 +107,19 @@ def test_computing_note_shows_once_the_form_is_submitted(live_server, page):
     page.wait_for_selector("#computing", state="visible")
     assert page.locator("#computing").inner_text() == "Computing…"
     assert page.locator("#predict-button").is_disabled()
+
+
+def test_printed_page_keeps_the_plot_at_page_width_and_hides_the_form(live_server, page):
+    page.goto(live_server.url + "/?species=OCS&temperature_k=300&fmin_mhz=0&fmax_mhz=120000")
+    page.wait_for_selector("#spectrum-plot .main-svg", timeout=20_000)
+    page.evaluate("window.dispatchEvent(new Event('beforeprint'))")
+    page.wait_for_function("document.querySelector('#spectrum-plot').layout.width === 1000")
+    page.emulate_media(media="print")
+    assert page.locator("#spectrum-plot .main-svg").first.is_visible()
+    assert page.locator("#spectrum-form").is_hidden()
+    assert page.locator("#line-table tbody tr").count() > 0
+    page.evaluate("window.dispatchEvent(new Event('afterprint'))")
+    page.wait_for_function(
+        "document.querySelector('#spectrum-plot').layout.width === undefined || "
+        "document.querySelector('#spectrum-plot').layout.autosize === true"
+    )
