@@ -93,25 +93,29 @@ def _cosines(j: int, jp: int) -> dict[int, np.ndarray]:
 _Q_TERMS = ((0, {"z": 1.0}), (-1, {"x": SQRT_HALF, "y": SQRT_HALF}), (1, {"x": -SQRT_HALF, "y": SQRT_HALF}))
 
 
-def wang_operator_terms(rung, other, pairs, size: int) -> list[tuple[np.ndarray, ...]]:
-    """Non-zero Wang-basis operator elements of many block pairs of J and J′ at once.
+def wang_operator_terms(bras, kets, axes, size: int) -> list[tuple[np.ndarray, ...]]:
+    """Non-zero Wang-basis operator elements of many connected block pairs at once.
 
-    ``pairs`` holds (bra block, ket block, _, axis) with blocks indexed in
-    ``rung.blocks`` and ``other.blocks``.  Returns up to three (pair, row,
+    ``bras[n]`` and ``kets[n]`` are the BlockSolutions of pair n (any J, J′) and
+    ``axes[n]`` its representation axis.  Returns up to three (pair, row,
     column, value) arrays, each with at most one element per (pair, row), with
     the same elements as :func:`wang_operator`: inside the blocks O(K1, K2) joins
     K2 = K1 (z) or K2 = K1 ± 1 (x, y), scaled by 1/√2 at K = 0, plus the
     s2·O(K1, −K2) term that only reaches K1 + K2 ≤ 1.
     """
-    j, jp = rung.j, other.j
-    cosine = _cosines(j, jp)
-    bras = [rung.blocks[p[0]] for p in pairs]
-    kets = [other.blocks[p[1]] for p in pairs]
+    # Direction cosines of every (J, J′) met, one padded row each.
+    j_pairs = sorted({(bra.j, ket.j) for bra, ket in zip(bras, kets)})
+    row_of = {jj: n for n, jj in enumerate(j_pairs)}
+    width = max(j for j, _ in j_pairs) + 1
+    table = {q: np.zeros((len(j_pairs), width)) for q in (-1, 0, 1)}
+    for n, (j, jp) in enumerate(j_pairs):
+        for q, values in _cosines(j, jp).items():
+            table[q][n, : j + 1] = values
+    cosine_row = np.array([row_of[bra.j, ket.j] for bra, ket in zip(bras, kets)])
     first_bra = np.array([int(b.k_values[0]) for b in bras])
     first_ket = np.array([int(b.k_values[0]) for b in kets])
     size_bra = np.array([len(b.k_values) for b in bras])
     size_ket = np.array([len(b.k_values) for b in kets])
-    axes = [p[3] for p in pairs]
     row = np.arange(size)[None, :]
     terms = []
     for q, factors in _Q_TERMS:
@@ -123,26 +127,27 @@ def wang_operator_terms(rung, other, pairs, size: int) -> list[tuple[np.ndarray,
         valid = (row < size_bra[chosen, None]) & (col >= 0) & (col < size_ket[chosen, None])
         which, rows = np.nonzero(valid)
         k1, cols = k1[which, rows], col[which, rows]
-        factor = np.array([factors[axes[n]] for n in chosen])[which]
-        value = factor * cosine[q][k1]
         which = chosen[which]
+        factor = np.array([factors[axis] if axis in factors else 0.0 for axis in axes])[which]
+        value = factor * table[q][cosine_row[which], k1]
         # Elements that touch K = 0 (few): the Wang normalisation and the O(K1, −K2) term.
         k2 = k1 - q
         for at in np.nonzero((k1 == 0) | (k2 == 0))[0]:
             if q == 1:  # K1 = 1, K2 = 0: O(1,0) + O(1,−0), scaled by 1/√2
                 value[at] *= np.sqrt(2.0)
             elif q == -1:  # K1 = 0, K2 = 1: (O(0,1) + s2·O(0,−1))/√2
-                sign = kets[which[at]].sign
-                value[at] = (value[at] + sign * _Q_TERMS[2][1][axes[which[at]]] * cosine[1][0]) * SQRT_HALF
+                pair = which[at]
+                o_minus = _Q_TERMS[2][1][axes[pair]] * table[1][cosine_row[pair], 0]
+                value[at] = (value[at] + kets[pair].sign * o_minus) * SQRT_HALF
             # q = 0, K1 = K2 = 0: (O(0,0) + O(0,0))/2 leaves O(0,0).
         terms.append((which, rows, cols, value))
     return terms
 
 
-def wang_operator_stack(rung, other, pairs, size: int) -> np.ndarray:
+def wang_operator_stack(bras, kets, axes, size: int) -> np.ndarray:
     """The terms of :func:`wang_operator_terms` as dense zero-padded matrices (n_pairs, size, size)."""
-    stack = np.zeros((len(pairs), size, size))
-    for which, rows, cols, values in wang_operator_terms(rung, other, pairs, size):
+    stack = np.zeros((len(bras), size, size))
+    for which, rows, cols, values in wang_operator_terms(bras, kets, axes, size):
         stack[which, rows, cols] += values
     return stack
 

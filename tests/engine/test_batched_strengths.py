@@ -32,10 +32,11 @@ def test_batched_terms_equal_the_dense_operator_of_every_connected_pair(represen
                 continue
             other = rungs[rung.j + delta_j]
             pairs = _block_pairs(rung, other, AXES, delta_j)
-            size = max(len(b.energies_mhz) for b in rung.blocks + other.blocks)
-            stack = wang_operator_stack(rung, other, pairs, size)
-            for n, (i, k, _, axis) in enumerate(pairs):
-                bra, ket = rung.blocks[i], other.blocks[k]
+            bras = [rung.blocks[i] for i, _, _, _ in pairs]
+            kets = [other.blocks[k] for _, k, _, _ in pairs]
+            size = max(len(b.energies_mhz) for b in rung.blocks + other.blocks) + 1  # one row of padding too
+            stack = wang_operator_stack(bras, kets, [axis for *_, axis in pairs], size)
+            for n, (bra, ket, (_, _, _, axis)) in enumerate(zip(bras, kets, pairs)):
                 dense = wang_operator(axis, bra, ket)
                 # Same closed-form 3j values through two index paths: rounding only.
                 assert_allclose(stack[n, : bra.index.plus.size, : ket.index.plus.size], dense, atol=1e-14)
