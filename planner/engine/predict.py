@@ -77,10 +77,11 @@ def _line_table(
     """Columns of the lines in ``found`` at or above ``floor`` [nm² MHz], sorted by frequency."""
     energy = ladder.flat_energies()
     spin = np.concatenate(ladder.spin_weights)
-    # A line exists only between levels of the same nuclear-spin species.
-    same_spin = (spin[found.lower] == spin[found.upper]) & (spin[found.lower] > 0)
-    lo, up = found.lower[same_spin], found.upper[same_spin]
-    strength, axis = found.strength[same_spin], found.axis[same_spin]
+    lo, up, strength, axis = found.lower, found.upper, found.strength, found.axis
+    if species.spin_weights is not None:
+        # A line exists only between levels of the same nuclear-spin species.
+        same_spin = (spin[lo] == spin[up]) & (spin[lo] > 0)
+        lo, up, strength, axis = lo[same_spin], up[same_spin], strength[same_spin], axis[same_spin]
 
     frequency = energy[up] - energy[lo]
     mu2 = np.array(species.dipole_debye) ** 2

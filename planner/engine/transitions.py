@@ -78,13 +78,19 @@ def asymmetric_transitions(
         (n, PRINCIPAL_TO_REPRESENTATION[representation][p]) for n, (p, mu) in enumerate(zip("abc", dipole_debye)) if mu
     ]
     groups: dict[int, list] = {}
-    for rung in ladder.rungs:
+    for rung, weights in zip(ladder.rungs, ladder.spin_weights):
         for delta_j in (0, 1):
             if rung.j + delta_j > ladder.j_max or (rung.j == 0 and delta_j == 0):
                 continue
             other = ladder.rungs[rung.j + delta_j]
+            other_weights = ladder.spin_weights[rung.j + delta_j]
             for i, n, code, axis in _block_pairs(rung, other, axes, delta_j):
                 bra, ket = rung.blocks[i], other.blocks[n]
+                # All levels of a Wang block share one C2 symmetry, hence one spin weight:
+                # a pair of blocks with different (or zero) weights has no allowed line.
+                weight = weights[bra.first_level]
+                if weight == 0 or weight != other_weights[ket.first_level]:
+                    continue
                 size = -(-max(len(bra.k_values), len(ket.k_values)) // BATCH_STEP) * BATCH_STEP
                 first = (offsets[rung.j] + bra.first_level, offsets[other.j] + ket.first_level)
                 groups.setdefault(size, []).append((bra, ket, code, axis, first))

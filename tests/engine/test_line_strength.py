@@ -272,3 +272,20 @@ def test_rigid_rotor_lines_do_not_depend_on_the_representation():
         ir = [tables["Ir"][k][column] for k in keys]
         iiir = [tables["IIIr"][k][column] for k in keys]
         assert_allclose(iiir, ir, rtol=rtol, atol=atol, err_msg=column)
+
+
+@pytest.mark.parametrize("representation", ["Ir", "IIIr"])
+@pytest.mark.parametrize("c2_axis", ["a", "b", "c"])
+def test_every_wang_block_has_one_c2_symmetry(representation, c2_axis):
+    """transitions.py skips block pairs by one spin weight per block; that needs every level of a
+    Wang block to share its C2 character (Gordy & Cook 1984, Ch. 7: the four Wang blocks are the
+    four symmetry species of the D2 group)."""
+    from planner.engine.labels import spin_symmetry_even
+
+    solver = AsymmetricSolver(_state({"A": 9000.0, "B": 3100.0, "C": 2500.0}), "A", representation)
+    for j in range(0, 15):
+        levels = solver.solve(j)
+        for block in levels.blocks:
+            rows = slice(block.first_level, block.first_level + len(block.energies_mhz))
+            even = spin_symmetry_even(levels.ka[rows], levels.kc[rows], c2_axis)
+            assert even.all() or not even.any(), f"J={j} block {block.parity, block.sign}"
