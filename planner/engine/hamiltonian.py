@@ -10,11 +10,11 @@ symmetric-top basis |J,K⟩ and folds them into the four Wang blocks of each J.
 Notes
 -----
 Basis |J,K⟩, K = −J..J, x = J(J+1), f(J,K) = √([x − K(K+1)][x − (K+1)(K+2)])
-(Eq. 1 of [3]).  Rigid part (representation axes x, y, z with constants X, Y, Z)::
+([3], "Asymmetric tops").  Rigid part (representation axes x, y, z with constants X, Y, Z)::
 
     (X+Y)/2 · J² + (Z − (X+Y)/2) · Jz² + (X−Y)/4 · (J+² + J−²)
 
-A-reduction (Watson [1]; diagonal and ΔK = ±2 elements, Eqs. 2–3 of [3])::
+A-reduction (Watson [1]; diagonal and ΔK = ±2 elements as written in [3])::
 
     −ΔJ J⁴ − ΔJK J²Jz² − ΔK Jz⁴ − 2δJ J²(Jx²−Jy²) − δK {Jz², Jx²−Jy²}
     + ΦJ J⁶ + ΦJK J⁴Jz² + ΦKJ J²Jz⁴ + ΦK Jz⁶
@@ -32,7 +32,7 @@ Wang functions |K,s⟩ = (|K⟩ + s|−K⟩)/√2 (K > 0) and |0⟩ (s = +1) spl
 into blocks of one K parity and one sign s.  Because every element obeys
 ⟨K'|H|K⟩ = ⟨−K'|H|−K⟩, the block element between K and K+2m is
 2 N_K N_(K+2m) [⟨K+2m|H|K⟩ + s ⟨K+2m|H|−K⟩] with N_K = 1/√2 (K > 0) or 1/2 (K = 0)
-(Sec. 7.2 of [4]).
+(Ch. 7 of [4]).
 
 References
 ----------
@@ -62,7 +62,7 @@ def parameter_names(reduction: str) -> tuple[str, ...]:
 
 
 def _f(x: float, k: np.ndarray) -> np.ndarray:
-    """f(J,K) = √([x − K(K+1)][x − (K+1)(K+2)]) [dimensionless]; Eq. 1 of [3]."""
+    """f(J,K) = √([x − K(K+1)][x − (K+1)(K+2)]) [dimensionless]; [3], "Asymmetric tops"."""
     product = (x - k * (k + 1)) * (x - (k + 1) * (k + 2))
     return np.sqrt(np.clip(product, 0.0, None))
 

@@ -17,7 +17,7 @@ from .constants import DOPPLER_FACTOR, EINSTEIN_A_PREFACTOR, INTENSITY_PREFACTOR
 def einstein_a(frequency_mhz, s_mu2_d2, j_upper):
     """Spontaneous emission rate A [s^-1].
 
-    A = 1.16395×10⁻²⁰ · ν³[MHz] · Sμ²[D²] / (2J_u + 1) (Eq. in [3], from [1], [2]).
+    A = 1.16395×10⁻²⁰ · ν³[MHz] · Sμ²[D²] / (2J_u + 1) ([3], "Intensities", from [1], [2]).
     Nuclear-spin weights do not enter.
     """
     frequency_mhz = np.asarray(frequency_mhz, dtype=float)
@@ -35,7 +35,7 @@ def integrated_intensity(frequency_mhz, weighted_s_mu2_d2, lower_mhz, temperatur
 
     I = 4.16231×10⁻⁵ · ν[MHz] · g Sμ²[D²] · (e^(−E_l/kT) − e^(−E_u/kT)) / Q(T),
     with g the statistical weight of the line (spin and K degeneracy), energies
-    from the lowest level (Eq. in [3], after [1]).
+    from the lowest level ([3], "Intensities", after [1]).
     """
     boltzmann = boltzmann_difference(lower_mhz, frequency_mhz, temperature_k)
     return INTENSITY_PREFACTOR * np.asarray(frequency_mhz) * weighted_s_mu2_d2 * boltzmann / partition_function

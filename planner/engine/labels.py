@@ -13,7 +13,7 @@ Block membership (Wang "+" = (|K⟩ + |−K⟩)/√2, K = 0 in "+"; see hamilton
 References
 ----------
 [1] W. Gordy and R. L. Cook, *Microwave Molecular Spectra*, 3rd ed., Wiley 1984,
-    Sec. 7.3 (τ labels, non-crossing rule) and Table 7.7 (Wang symmetry classes).
+    Ch. 7 (τ labels, the non-crossing rule, Wang symmetry classes).
 """
 
 from __future__ import annotations
@@ -75,7 +75,7 @@ def spin_symmetry_even(ka: np.ndarray, kc: np.ndarray, axis: str) -> np.ndarray:
     """True where a level is symmetric (+1) under the C2 rotation about ``axis``.
 
     The character is (−1)^Ka for a, (−1)^(Ka+Kc) for b, (−1)^Kc for c
-    (Gordy & Cook 1984, Table 7.7).
+    (Gordy & Cook 1984, Ch. 7).
     """
     if axis == "a":
         exponent = ka

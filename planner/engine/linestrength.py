@@ -7,13 +7,13 @@ basis and M_q[K, K′] = (−1)^(J−K) (J 1 J′; −K q K′),
     S_x = (2J+1)(2J′+1) (cᵀ (M_−1 − M_+1)/√2 d)²
     S_y = (2J+1)(2J′+1) (cᵀ (M_−1 + M_+1)/√2 d)²
 
-(Eq. 4 of [2], after Ch. 7 of [1] and Ch. 3 of [3]).  The operators are folded
+([2], "Line strengths", after Ch. 7 of [1] and Ch. 3 of [3]).  The operators are folded
 into the Wang blocks: under K → −K every element picks up ε = (−1)^(J+J′+1)
 for z and y and −(−1)^(J+J′+1) for x, so block (p, s) of J meets only block
 (p′, s·ε) of J′, with p′ = p for z and 1 − p for x, y.
 
 Symmetric tops and linear molecules use the closed forms
-S(J → J+1, K) = ((J+1)² − K²)/(J+1) per K component (Eq. 5 of [2]).
+S(J → J+1, K) = ((J+1)² − K²)/(J+1) per K component ([2], "Linear and symmetric tops").
 
 References
 ----------
@@ -54,7 +54,7 @@ def direction_cosine(j: int, jp: int, k: np.ndarray, q: int) -> np.ndarray:
 def full_axis_operator(axis: str, j: int, jp: int) -> np.ndarray:
     """Dense ⟨J,K|O_axis|J′,K′⟩ over K = −J..J, K′ = −J′..J′ (rows, columns).
 
-    z: M_0; x: (M_−1 − M_+1)/√2; y: (M_−1 + M_+1)/√2 (Eq. 4 of [2]).
+    z: M_0; x: (M_−1 − M_+1)/√2; y: (M_−1 + M_+1)/√2 ([2], "Line strengths").
     """
     k = np.arange(-j, j + 1)
     operator = np.zeros((2 * j + 1, 2 * jp + 1))
@@ -159,6 +159,6 @@ def block_strengths(axis: str, bra: BlockSolution, ket: BlockSolution) -> np.nda
 
 
 def symmetric_top_strength(j_lower: np.ndarray, k: np.ndarray) -> np.ndarray:
-    """S(J → J+1, K) = ((J+1)² − K²)/(J+1) per K component [dimensionless]; Eq. 5 of [2]."""
+    """S(J → J+1, K) = ((J+1)² − K²)/(J+1) per K component [dimensionless]; [2], "Linear and symmetric tops"."""
     j1 = np.asarray(j_lower, dtype=float) + 1.0
     return (j1**2 - np.asarray(k, dtype=float) ** 2) / j1

@@ -5,7 +5,7 @@ strength and the principal axis (a, b, c) of the dipole component.
 
 Selection rules: ΔJ = 0, ±1.  Asymmetric tops follow from the direction
 cosines (a-type ee↔eo, oo↔oe; b-type ee↔oo, eo↔oe; c-type ee↔oe, eo↔oo in
-Ka Kc parities, Gordy & Cook 1984, Table 7.8); they appear here as the Wang
+Ka Kc parities, Gordy & Cook 1984, Ch. 7); they appear here as the Wang
 block pairs that the operator connects.  Symmetric tops and linear molecules:
 ΔJ = +1, ΔK = 0 along the symmetry axis (ΔJ = 0, ΔK = 0 joins a level with
 itself).

@@ -1,14 +1,14 @@
 """Wigner 3j symbols (J 1 J'; −K q K') for the dipole operator, vectorised over K.
 
 Closed forms of the Clebsch–Gordan coefficients ⟨j m; 1 q | j' m+q⟩ for
-j' = j − 1, j, j + 1 (Condon–Shortley phases), Table 2.4 of [1], turned into
-3j symbols with Eq. 2.19 of [1]:
+j' = j − 1, j, j + 1 (Condon–Shortley phases), Ch. 2 of [1], turned into
+3j symbols with the standard relation (Ch. 2 of [1]):
 (j1 j2 j3; m1 m2 m3) = (−1)^(j1 − j2 − m3) / √(2 j3 + 1) · ⟨j1 m1; j2 m2 | j3 −m3⟩.
 
 References
 ----------
 [1] R. N. Zare, *Angular Momentum*, Wiley 1988, Ch. 2.
-[2] A. R. Edmonds, *Angular Momentum in Quantum Mechanics*, Princeton 1957, Table 2.
+[2] A. R. Edmonds, *Angular Momentum in Quantum Mechanics*, Princeton 1957, Ch. 3.
 """
 
 from __future__ import annotations
@@ -57,6 +57,6 @@ def three_j_rank1(j: int, jp: int, k: np.ndarray, q: int) -> np.ndarray:
     """(J 1 J'; −K q K') with K' = K − q, vectorised over K [dimensionless]."""
     k = np.asarray(k)
     kp = k - q
-    # Eq. 2.19 of [1] with j1 = J, m1 = −K, j2 = 1, m2 = q, j3 = J', m3 = K'.
+    # The 3j–CG relation of [1] with j1 = J, m1 = −K, j2 = 1, m2 = q, j3 = J', m3 = K'.
     phase = np.where((j - 1 - kp) % 2 == 0, 1.0, -1.0)
     return phase / np.sqrt(2 * jp + 1) * clebsch_gordan_rank1(j, -k, q, jp)

@@ -39,7 +39,7 @@ def _state(constants: dict[str, float]) -> State:
 
 
 def racah_3j(j1: int, j2: int, j3: int, m1: int, m2: int, m3: int) -> float:
-    """Wigner 3j symbol by the Racah formula (Edmonds 1957, Eq. 3.7.3; Zare 1988, Eq. 2.34)."""
+    """Wigner 3j symbol by the Racah formula (Edmonds 1957, Eq. 3.7.3; Zare 1988, Ch. 2)."""
     if m1 + m2 + m3 != 0 or not abs(j1 - j2) <= j3 <= j1 + j2:
         return 0.0
     if abs(m1) > j1 or abs(m2) > j2 or abs(m3) > j3:
