@@ -169,3 +169,22 @@ def parse_table():
         return parser.head, parser.body
 
     return parse
+
+
+@pytest.fixture
+def assert_json_matches():
+    """Check a prediction JSON (exports.prediction_json) of the test window against a prediction."""
+    return _assert_json_matches
+
+
+def _assert_json_matches(document: dict, prediction) -> None:
+    assert set(document) >= {"request", "partition_function", "j_max", "messages", "lines"}
+    assert document["request"] == {
+        "fmin_mhz": TEST_FMIN_MHZ,
+        "fmax_mhz": TEST_FMAX_MHZ,
+        "temperature_k": TEST_TEMPERATURE_K,
+        "min_intensity_nm2mhz": 0.0,
+    }
+    assert document["partition_function"] == prediction.partition_function
+    assert document["j_max"] == prediction.j_max
+    assert len(document["lines"]) == len(prediction.lines)
