@@ -67,11 +67,14 @@ def _f(x: float, k: np.ndarray) -> np.ndarray:
     return np.sqrt(np.clip(product, 0.0, None))
 
 
+@lru_cache(maxsize=512)
 def full_basis_elements(j: int, reduction: str, representation: str) -> dict[int, np.ndarray]:
     """Operator elements ⟨J,K+d|O_p|J,K⟩ for d = 0, 2, 4, 6.
 
-    Returns ``{d: array (n_params, 2J+1−d)}``; column i belongs to the lower
-    K = −J + i.  Elements beyond the basis are zero.
+    Returns ``{d: array (n_params, 2J+1−d)}``, read-only, for the d that the
+    reduction couples (the A-reduction stops at d = 2); column i belongs to the
+    lower K = −J + i.  Elements beyond the basis are zero.  Cached: the table
+    depends on J, the reduction and the representation only (≤ 50 kB per J).
     """
     names = parameter_names(reduction)
     index = {name: i for i, name in enumerate(names)}
@@ -123,6 +126,9 @@ def full_basis_elements(j: int, reduction: str, representation: str) -> dict[int
         out[4][index["d2"]] = f4
         out[4][index["h2"]] = x * f4
         out[6][index["h3"]] = f6
+    out = {d: table for d, table in out.items() if d == 0 or table.any()}
+    for table in out.values():
+        table.setflags(write=False)
     return out
 
 

@@ -169,7 +169,7 @@ def _expectation_values(elements: dict[int, np.ndarray], vectors: np.ndarray) ->
     n = vectors.shape[0]
     result = elements[0] @ (vectors * vectors)
     for d, coefficients in elements.items():
-        if d and coefficients.shape[1] and coefficients.any():  # the A-reduction has no ΔK = 4, 6 terms
+        if d and coefficients.shape[1]:
             result += 2.0 * coefficients @ (vectors[: n - d] * vectors[d:])
     return result.T
 
