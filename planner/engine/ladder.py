@@ -22,6 +22,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .constants import INTENSITY_PREFACTOR, MHZ_PER_CM1, MHZ_PER_K
+from .intensity import partition_terms
 from .labels import spin_symmetry_even
 from .levels import JLevels, solver_for
 from .request import ASYMMETRIC_J_CAP, CLOSED_FORM_J_CAP, PredictionRequest
@@ -44,7 +45,6 @@ class StateLadder:
     vibrational_mhz: float
     rungs: list[JLevels] = field(default_factory=list)
     spin_weights: list[np.ndarray] = field(default_factory=list)
-    partition_sum: float = 0.0
     truncated: bool = False
 
     @property
@@ -174,10 +174,9 @@ def _climb_state(shared: _Climb, state: State, vibrational_mhz: float) -> StateL
         rung = solver.solve(j)
         level_weights = level_spin_weights(species, rung)
         energies = vibrational_mhz + rung.energies_mhz
-        term = float(np.sum(level_weights * rung.k_degeneracy * (2 * j + 1) * np.exp(-energies / kt_mhz)))
+        term = partition_terms(energies, level_weights * rung.k_degeneracy * (2 * j + 1), request.temperature_k)
         ladder.rungs.append(rung)
         ladder.spin_weights.append(level_weights)
-        ladder.partition_sum += term
         shared.partition += term
         low = float(energies.min())
         if previous_low is not None and low < previous_low:

@@ -257,10 +257,6 @@ class Species:
     def has_dipole(self) -> bool:
         return any(mu != 0 for mu in self.dipole_debye)
 
-    def ground_state(self) -> State:
-        """The state of lowest energy."""
-        return min(self.states, key=lambda s: s.energy_cm1)
-
 
 def _finite(value) -> bool:
     return isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value)
