@@ -19,6 +19,7 @@ SPECIES_KEYS = (
     "states",
     "source",
     "notes",
+    "hazards",
 )
 REQUIRED_SPECIES_KEYS = ("name", "formula", "rotor", "dipole_debye", "states")
 STATE_KEYS = ("label", "energy_cm1", "constants_mhz")

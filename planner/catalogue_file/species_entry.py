@@ -90,7 +90,7 @@ def parse_species(entry, label: str) -> tuple[Species | None, list[Problem]]:
         if key not in entry:
             report.add(key, "is required")
     formula = _text(report, entry, "formula", None)
-    texts = {key: _text(report, entry, key, "") for key in ("source", "notes")}
+    texts = {key: _text(report, entry, key, "") for key in ("source", "notes", "hazards")}
     fields = {
         "name": _text(report, entry, "name", None),
         "rotor": _choice(report, entry, "rotor", ROTOR_KINDS, None),

@@ -71,4 +71,5 @@ def _species_entry(species: Species) -> dict:
     ]
     entry["source"] = species.source
     entry["notes"] = species.notes
+    entry["hazards"] = species.hazards
     return entry

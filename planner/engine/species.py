@@ -173,6 +173,7 @@ class Species:
     spin_weights: SpinWeights | None = None
     source: str = ""
     notes: str = ""
+    hazards: str = ""  # handling notes for the lab; the engine does not read them
 
     def __post_init__(self):
         object.__setattr__(self, "dipole_debye", tuple(float(x) for x in self.dipole_debye))

@@ -30,6 +30,7 @@ def species_list():
             ),
             source="fixture [ 1  2 ] {odd}  spacing",
             notes="línea — ünïcode\nsecond line",
+            hazards="toxic gas: work in a ventilated enclosure",
         ),
         Species(
             name="prolate C3",
