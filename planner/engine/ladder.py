@@ -188,7 +188,12 @@ def _climb_state(shared: _Climb, state: State, vibrational_mhz: float) -> StateL
             )
         bound = shared.line_bound_factor * (2 * j + 1) * np.exp(-low / kt_mhz) / shared.partition
         shared.bound_max = max(shared.bound_max, bound)
-        past_peak = previous_term is not None and term < previous_term and bound < previous_bound
+        # A state too high to be populated at all has terms and bounds that are exactly 0 from J = 0.
+        past_peak = (
+            previous_term is not None
+            and (term < previous_term or term == 0.0)
+            and (bound < previous_bound or bound == 0.0)
+        )
         if past_peak and term < Q_TOLERANCE * shared.partition and bound < shared.floor:
             return ladder
         if j >= shared.cap:

@@ -107,3 +107,21 @@ def test_breakdown_of_the_distortion_series_is_refused():
     species = Species(name="broken", rotor="asymmetric", mass_amu=30.0, dipole_debye=(1.0, 0, 0), states=(state,))
     with pytest.raises(EngineLimitError, match="broken down"):
         predict(species, PredictionRequest(0.0, 1e6, 300.0))
+
+
+def test_a_state_too_high_to_be_populated_stops_at_once():
+    # CO-like v=1 at 2143 cm^-1 (from memory) at 3 K: e^(-E/kT) underflows to exactly 0,
+    # so every term of that state is 0; the climb must stop, not run to the J cap.
+    species = Species(
+        name="cold two-state linear",
+        rotor="linear",
+        mass_amu=28.0,
+        dipole_debye=(0.11, 0, 0),
+        states=(
+            State("v=0", 0.0, {"B": (57635.968, 0.001)}),
+            State("v=1", 2143.27, {"B": (57111.25, 0.05)}),
+        ),
+    )
+    prediction = predict(species, PredictionRequest(0.0, 1.0e6, 3.0))
+    assert set(prediction.lines["state"]) == {"v=0"}
+    assert prediction.j_max[species.name] < 20
