@@ -30,3 +30,8 @@ INTENSITY_PREFACTOR = 2.0 * math.pi**2 * 1e6 * DEBYE_CM**2 / (3.0 * _c.epsilon_0
 
 #: Doppler FWHM / ν = DOPPLER_FACTOR · √(T[K] / M[u]); from √(8 k T ln2 / (m c²)).
 DOPPLER_FACTOR = math.sqrt(8.0 * _c.k * math.log(2.0) / (_c.atomic_mass * _c.c**2))
+
+#: B [MHz] · I [u·Å²] = INERTIA_MHZ_AMU_A2 ≈ 505379.0 MHz·u·Å², from I = h / (8π² B) of [1]
+#: (PHYSICS.md, "Structure"; B in Hz, I in kg m²) with 1 MHz = 1e6 Hz, 1 u = m_u (the atomic
+#: mass constant) and 1 Å = 1e-10 m.
+INERTIA_MHZ_AMU_A2 = _c.h / (8.0 * math.pi**2 * 1e6 * _c.atomic_mass * _c.angstrom**2)
