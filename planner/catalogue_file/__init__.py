@@ -10,7 +10,7 @@ from pathlib import Path
 
 from .masses import mass_from_formula
 from .problems import CatalogueError, Problem
-from .reader import load_catalogue, parse_catalogue
+from .reader import load_catalogue, parse_catalogue, parse_catalogue_bytes
 from .writer import catalogue_to_dict, dump_catalogue
 
 #: The demo catalogue shipped with Linecast (see planner/demo/README.md).
@@ -25,4 +25,5 @@ __all__ = [
     "load_catalogue",
     "mass_from_formula",
     "parse_catalogue",
+    "parse_catalogue_bytes",
 ]

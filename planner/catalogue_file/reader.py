@@ -31,25 +31,33 @@ def _json_object(pairs: list[tuple[str, object]]) -> _JsonObject:
 def load_catalogue(path: str | os.PathLike) -> list[Species]:
     """Every species of the catalogue file at ``path``; CatalogueError if the file is invalid."""
     try:
-        with open(path, encoding="utf-8") as file:
-            text = file.read()
+        with open(path, "rb") as file:
+            content = file.read()
     except FileNotFoundError:
         raise CatalogueError([Problem(None, "file", f"{os.fspath(path)}: no such file")], os.fspath(path)) from None
-    except UnicodeDecodeError as error:
-        problem = Problem(None, "file", f"is not UTF-8 text (byte {error.start})")
-        raise CatalogueError([problem], os.fspath(path)) from None
     except OSError as error:
         problem = Problem(None, "file", f"{os.fspath(path)}: cannot be read ({error.strerror})")
         raise CatalogueError([problem], os.fspath(path)) from None
     try:
+        return parse_catalogue_bytes(content)
+    except CatalogueError as error:
+        raise CatalogueError(error.problems, os.fspath(path)) from None
+
+
+def parse_catalogue_bytes(content: bytes) -> list[Species]:
+    """Every species of a catalogue file's content (UTF-8 JSON); CatalogueError listing all problems."""
+    try:
+        text = content.decode("utf-8")
+    except UnicodeDecodeError as error:
+        raise CatalogueError([Problem(None, "file", f"is not UTF-8 text (byte {error.start})")]) from None
+    try:
         data = json.loads(text, object_pairs_hook=_json_object)
     except json.JSONDecodeError as error:
         problem = Problem(None, "file", f"is not valid JSON: {error.msg} at line {error.lineno}, column {error.colno}")
-        raise CatalogueError([problem], os.fspath(path)) from None
-    try:
-        return parse_catalogue(data)
-    except CatalogueError as error:
-        raise CatalogueError(error.problems, os.fspath(path)) from None
+        raise CatalogueError([problem]) from None
+    except RecursionError:
+        raise CatalogueError([Problem(None, "file", "is nested too deeply to be a catalogue")]) from None
+    return parse_catalogue(data)
 
 
 def parse_catalogue(data: dict) -> list[Species]:
