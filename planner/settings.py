@@ -23,11 +23,14 @@ SECRET_KEY = _deployment["SECRET_KEY"]
 ALLOWED_HOSTS = _deployment["ALLOWED_HOSTS"]
 
 INSTALLED_APPS = [
+    "django.contrib.admin",
     "django.contrib.auth",
     "django.contrib.contenttypes",
     "django.contrib.sessions",
     "django.contrib.messages",
     "django.contrib.staticfiles",
+    "simple_history",
+    "planner.catalogue",
     "planner.spectra",
 ]
 
@@ -42,6 +45,8 @@ MIDDLEWARE = [
     "django.contrib.auth.middleware.AuthenticationMiddleware",
     "django.contrib.messages.middleware.MessageMiddleware",
     "django.middleware.clickjacking.XFrameOptionsMiddleware",
+    # Gives the admin's edits their user in the history; the catalogue's own views stamp it themselves.
+    "simple_history.middleware.HistoryRequestMiddleware",
 ]
 
 ROOT_URLCONF = "planner.urls"
@@ -103,11 +108,14 @@ STORAGES = {
 # tests and `make run` work without collectstatic.
 WHITENOISE_USE_FINDERS = not PRODUCTION
 
-# The first page reads species from this JSON file; a later version keeps the
-# catalogue in the database.
-LINECAST_CATALOGUE_FILE = Path(
-    ENVIRON.get("LINECAST_CATALOGUE_FILE", "").strip() or BASE_DIR / "planner" / "demo" / "catalogue.json"
-)
+# Every page needs a logged-in member of the group (see planner/catalogue/roles.py).
+LOGIN_URL = "login"
+LOGIN_REDIRECT_URL = "catalogue:list"
+LOGOUT_REDIRECT_URL = "login"
+
+# Uploads (catalogue files) are read into memory up to this size and refused above it.
+DATA_UPLOAD_MAX_MEMORY_SIZE = 5 * 1024 * 1024
+FILE_UPLOAD_MAX_MEMORY_SIZE = 5 * 1024 * 1024
 
 if PRODUCTION:
     SESSION_COOKIE_SECURE = True

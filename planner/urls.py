@@ -1,7 +1,15 @@
-"""Site URLs: the spectrum page is the home page for now."""
+"""Site URLs: the catalogue is the home of the site; the spectrum page and the admin beside it."""
 
+from django.contrib import admin
+from django.contrib.auth import views as auth_views
 from django.urls import include, path
+from django.views.generic import RedirectView
 
 urlpatterns = [
-    path("", include("planner.spectra.urls")),
+    path("", RedirectView.as_view(pattern_name="catalogue:list", permanent=False), name="home"),
+    path("catalogue/", include("planner.catalogue.urls")),
+    path("spectrum/", include("planner.spectra.urls")),
+    path("accounts/login/", auth_views.LoginView.as_view(), name="login"),
+    path("accounts/logout/", auth_views.LogoutView.as_view(), name="logout"),
+    path("admin/", admin.site.urls),
 ]

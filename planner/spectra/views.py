@@ -13,20 +13,19 @@ from django.core.exceptions import NON_FIELD_ERRORS
 from django.http import HttpResponse, HttpResponseBadRequest, JsonResponse
 from django.shortcuts import render
 
-from planner.catalogue_file import CatalogueError
+from planner.catalogue.access import VIEW, needs
+from planner.catalogue.conversion import species_of_row, with_constants
+from planner.catalogue.models import Species as SpeciesRow
 from planner.engine import Prediction, Species, predict
-from planner.spectra.catalogue import catalogue_path, catalogue_species
 from planner.spectra.exports import prediction_csv, prediction_json
 from planner.spectra.forms import SpectrumForm
 from planner.spectra.plot import plot_data
 from planner.spectra.table import line_table
 
 
+@needs(VIEW)
 def spectrum_page(request):
-    try:
-        form, species, prediction = _prediction_from_query(request)
-    except CatalogueError as error:
-        return _catalogue_unavailable(request, error)
+    form, species, prediction = _prediction_from_query(request)
     context = {"form": form, "species": species, "prediction": prediction}
     if prediction is not None:
         records = prediction.records()
@@ -40,6 +39,7 @@ def spectrum_page(request):
     return render(request, "spectra/spectrum.html", context)
 
 
+@needs(VIEW)
 def spectrum_csv(request):
     def respond(prediction, form):
         buffer = io.StringIO()
@@ -49,6 +49,7 @@ def spectrum_csv(request):
     return _download(request, respond, "csv")
 
 
+@needs(VIEW)
 def spectrum_json(request):
     def respond(prediction, form):
         return JsonResponse(prediction_json(prediction, form.request()), json_dumps_params={"allow_nan": False})
@@ -57,11 +58,8 @@ def spectrum_json(request):
 
 
 def _download(request, respond, extension: str):
-    """The prediction of the query as a file, or a plain-text 400/503 naming the problem."""
-    try:
-        form, species, prediction = _prediction_from_query(request)
-    except CatalogueError as error:
-        return HttpResponse(str(error), status=503, content_type="text/plain; charset=utf-8")
+    """The prediction of the query as a file, or a plain-text 400 naming the problem."""
+    form, species, prediction = _prediction_from_query(request)
     if prediction is None:
         return _bad_query(form)
     response = respond(prediction, form)
@@ -75,7 +73,7 @@ def _prediction_from_query(request) -> tuple[SpectrumForm, Species | None, Predi
     Returns the form (carrying any errors), the chosen species and the
     prediction, the last two None when there is nothing to show.
     """
-    species_list = catalogue_species()
+    species_list = [species_of_row(row) for row in with_constants(SpeciesRow.objects.all())]
     form = SpectrumForm(request.GET or None, species_names=[s.name for s in species_list])
     if not form.is_bound or not form.is_valid():
         return form, None, None
@@ -86,11 +84,6 @@ def _prediction_from_query(request) -> tuple[SpectrumForm, Species | None, Predi
         form.add_error(None, str(error))
         return form, species, None
     return form, species, prediction
-
-
-def _catalogue_unavailable(request, error: CatalogueError):
-    context = {"error": error, "path": catalogue_path()}
-    return render(request, "spectra/catalogue_error.html", context, status=503)
 
 
 def _bad_query(form: SpectrumForm):

@@ -7,7 +7,10 @@ from html.parser import HTMLParser
 
 import pytest
 
-from planner.catalogue_file import DEMO_CATALOGUE_PATH, load_catalogue
+from planner.catalogue.models import Species as SpeciesRow
+from planner.catalogue.roles import give_role
+from planner.catalogue.store import Stamp, import_species
+from planner.catalogue_file import DEMO_CATALOGUE_PATH, load_catalogue, parse_catalogue
 from planner.engine import PredictionRequest, predict
 
 #: A window and temperature small enough for quick tests (common practice, no source:
@@ -89,14 +92,73 @@ def write_catalogue(tmp_path):
 
 
 @pytest.fixture
-def use_catalogue(settings, write_catalogue):
-    """Point the page at a catalogue made of ``entries`` for one test."""
+def demo_in_db(db, demo_species):
+    """The demo catalogue imported into the test database."""
+    import_species(demo_species, Stamp(None, "demo catalogue"))
+    return demo_species
+
+
+@pytest.fixture
+def use_catalogue(db):
+    """Make the database catalogue hold exactly ``entries`` (catalogue-file entries) for one test."""
 
     def use(*entries: dict):
-        settings.LINECAST_CATALOGUE_FILE = write_catalogue(catalogue_document(*entries))
-        return settings.LINECAST_CATALOGUE_FILE
+        species = parse_catalogue(catalogue_document(*entries))
+        SpeciesRow.objects.all().delete()
+        import_species(species, Stamp(None, "test catalogue"))
+        return species
 
     return use
+
+
+PASSWORD = "spectral-lines-77"  # test accounts only
+
+
+@pytest.fixture
+def make_member(db, django_user_model):
+    """A user with a role ("viewer", "editor", or None for an account without one)."""
+
+    def make(username: str, role: str | None = None, **extra):
+        user = django_user_model.objects.create_user(username=username, password=PASSWORD, **extra)
+        if role:
+            give_role(user, role)
+        return user
+
+    return make
+
+
+@pytest.fixture
+def viewer(make_member):
+    return make_member("vera", "viewer")
+
+
+@pytest.fixture
+def editor(make_member):
+    return make_member("eddie", "editor")
+
+
+@pytest.fixture
+def viewer_client(client, viewer, demo_in_db):
+    """A logged-in viewer, with the demo catalogue in the database."""
+    client.force_login(viewer)
+    return client
+
+
+@pytest.fixture
+def editor_client(client, editor, demo_in_db):
+    """A logged-in editor, with the demo catalogue in the database."""
+    client.force_login(editor)
+    return client
+
+
+@pytest.fixture
+def second_editor_client(editor, make_member, demo_in_db):
+    """Another editor in a browser of their own (its own Client)."""
+    from django.test import Client
+
+    other = Client()
+    other.force_login(make_member("olga", "editor"))
+    return other
 
 
 @pytest.fixture

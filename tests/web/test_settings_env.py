@@ -137,7 +137,7 @@ def test_django_starts_in_production_with_secrets():
 
 
 def _settings_value(extra_env: dict, expression: str) -> str:
-    dropped = ("LINECAST_ENV", "DEBUG", "DATABASE_URL", "LINECAST_CATALOGUE_FILE")
+    dropped = ("LINECAST_ENV", "DEBUG", "DATABASE_URL")
     environ = {k: v for k, v in os.environ.items() if k not in dropped}
     environ |= {"DJANGO_SETTINGS_MODULE": "planner.settings"} | extra_env
     code = f"import django; django.setup(); from django.conf import settings; print({expression})"
@@ -159,11 +159,3 @@ def test_database_url_switches_to_postgresql():
     assert "'ENGINE', 'django.db.backends.postgresql'" in value
     assert "'NAME', 'lines'" in value
     assert "'PORT', 5433" in value
-
-
-def test_catalogue_file_defaults_to_the_demo_catalogue_and_follows_the_variable(tmp_path):
-    from planner.catalogue_file import DEMO_CATALOGUE_PATH
-
-    assert _settings_value({}, "settings.LINECAST_CATALOGUE_FILE") == str(DEMO_CATALOGUE_PATH)
-    chosen = tmp_path / "group.json"
-    assert _settings_value({"LINECAST_CATALOGUE_FILE": str(chosen)}, "settings.LINECAST_CATALOGUE_FILE") == str(chosen)

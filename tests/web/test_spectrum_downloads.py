@@ -10,9 +10,9 @@ from planner.engine import LINE_COLUMNS
 from planner.spectra.exports import prediction_csv
 
 
-def test_csv_download_has_a_file_name_and_the_engines_rows(client, demo_with_lines, page_query):
+def test_csv_download_has_a_file_name_and_the_engines_rows(viewer_client, demo_with_lines, page_query):
     species, prediction = demo_with_lines
-    response = client.get(reverse("spectra:spectrum_csv"), page_query(species.name))
+    response = viewer_client.get(reverse("spectra:spectrum_csv"), page_query(species.name))
     assert response.status_code == 200
     assert response["Content-Type"] == "text/csv; charset=utf-8"
     assert response["Content-Disposition"].startswith('attachment; filename="linecast-')
@@ -26,9 +26,11 @@ def test_csv_download_has_a_file_name_and_the_engines_rows(client, demo_with_lin
     assert rows == list(csv.reader(io.StringIO(expected.getvalue())))
 
 
-def test_json_download_carries_request_q_and_every_line(client, demo_with_lines, page_query, assert_json_matches):
+def test_json_download_carries_request_q_and_every_line(
+    viewer_client, demo_with_lines, page_query, assert_json_matches
+):
     species, prediction = demo_with_lines
-    response = client.get(reverse("spectra:spectrum_json"), page_query(species.name))
+    response = viewer_client.get(reverse("spectra:spectrum_json"), page_query(species.name))
     assert response.status_code == 200
     assert response["Content-Disposition"].endswith('-50K-0-120000MHz.json"')
     document = json.loads(response.content)
@@ -37,26 +39,26 @@ def test_json_download_carries_request_q_and_every_line(client, demo_with_lines,
     assert document["lines"][0]["frequency_mhz"] == prediction.records()[0]["frequency_mhz"]
 
 
-def test_download_with_a_bad_query_is_refused_with_the_field_named(client, demo_species, page_query):
-    response = client.get(reverse("spectra:spectrum_csv"), page_query(demo_species[0].name, temperature_k="-3"))
+def test_download_with_a_bad_query_is_refused_with_the_field_named(viewer_client, demo_species, page_query):
+    response = viewer_client.get(reverse("spectra:spectrum_csv"), page_query(demo_species[0].name, temperature_k="-3"))
     assert response.status_code == 400
     assert "temperature_k: Must be above 0 K." in response.content.decode()
 
 
-def test_page_links_both_downloads_with_the_same_query(client, demo_with_lines, page_query):
+def test_page_links_both_downloads_with_the_same_query(viewer_client, demo_with_lines, page_query):
     species, _ = demo_with_lines
-    response = client.get(reverse("spectra:spectrum"), page_query(species.name))
+    response = viewer_client.get(reverse("spectra:spectrum"), page_query(species.name))
     html = response.content.decode()
     query = response.wsgi_request.GET.urlencode().replace("&", "&amp;")
     assert f'href="{reverse("spectra:spectrum_csv")}?{query}"' in html
     assert f'href="{reverse("spectra:spectrum_json")}?{query}"' in html
 
 
-def test_download_refused_by_the_engine_names_the_request(client, demo_species, page_query, monkeypatch):
+def test_download_refused_by_the_engine_names_the_request(viewer_client, demo_species, page_query, monkeypatch):
     def refuse(species, request):
         raise ValueError("the distortion series has broken down at J=117")
 
     monkeypatch.setattr("planner.spectra.views.predict", refuse)
-    response = client.get(reverse("spectra:spectrum_json"), page_query(demo_species[0].name))
+    response = viewer_client.get(reverse("spectra:spectrum_json"), page_query(demo_species[0].name))
     assert response.status_code == 400
     assert response.content.decode() == "request: the distortion series has broken down at J=117"

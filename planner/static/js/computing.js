@@ -1,12 +1,13 @@
 // Shows "Computing…" while the browser waits for the next page, so a long
-// prediction does not look like a dead button.  The print button lives here
-// too: one small script per page.
+// prediction does not look like a dead button.  Any form marked
+// data-computing gets it.  The print button lives here too: one small script
+// per page.
 (function () {
   "use strict";
-  var form = document.getElementById("spectrum-form");
-  var note = document.getElementById("computing");
-  var button = document.getElementById("predict-button");
-  if (form && note && button) {
+  document.querySelectorAll("form[data-computing]").forEach(function (form) {
+    var note = form.querySelector(".computing");
+    var button = form.querySelector("button[type=submit]");
+    if (!note || !button) { return; }
     form.addEventListener("submit", function () {
       note.hidden = false;
       button.disabled = true;
@@ -19,7 +20,7 @@
       button.disabled = false;
       document.body.classList.remove("is-computing");
     });
-  }
+  });
   var printButton = document.getElementById("print-button");
   if (printButton) {
     printButton.addEventListener("click", function () { window.print(); });

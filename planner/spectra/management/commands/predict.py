@@ -17,9 +17,9 @@ import os
 import tempfile
 from pathlib import Path
 
-from django.conf import settings
 from django.core.management.base import BaseCommand, CommandError
 
+from planner.catalogue.store import export_species
 from planner.catalogue_file import CatalogueError, load_catalogue
 from planner.engine import PredictionRequest, predict_many
 from planner.spectra.exports import prediction_csv, prediction_json
@@ -35,7 +35,7 @@ class Command(BaseCommand):
             "--catalogue",
             type=Path,
             default=None,
-            help="catalogue JSON file (default: the LINECAST_CATALOGUE_FILE setting)",
+            help="catalogue JSON file (default: the catalogue in the database)",
         )
         parser.add_argument(
             "--species",
@@ -63,8 +63,7 @@ class Command(BaseCommand):
         parser.add_argument("--output", type=Path, default=None, metavar="PATH", help="file to write (default stdout)")
 
     def handle(self, *args, **options):
-        catalogue = options["catalogue"] or Path(settings.LINECAST_CATALOGUE_FILE)
-        species_list = self._species(catalogue, options["species"])
+        species_list = self._species(options["catalogue"], options["species"])
         try:
             request = PredictionRequest(
                 fmin_mhz=options["fmin_mhz"],
@@ -91,11 +90,15 @@ class Command(BaseCommand):
             write_atomically(options["output"], text.getvalue())
             self.stderr.write(f"wrote {len(prediction.lines)} lines to {options['output']}")
 
-    def _species(self, catalogue: Path, names: list[str] | None):
-        try:
-            species_list = load_catalogue(catalogue)
-        except CatalogueError as error:  # missing and unreadable files included
-            raise CommandError(f"catalogue {catalogue} has problems:\n{error}") from error
+    def _species(self, catalogue: Path | None, names: list[str] | None):
+        if catalogue is None:
+            catalogue = "the database catalogue"
+            species_list = export_species()
+        else:
+            try:
+                species_list = load_catalogue(catalogue)
+            except CatalogueError as error:  # missing and unreadable files included
+                raise CommandError(f"catalogue {catalogue} has problems:\n{error}") from error
         if not names:
             return species_list
         by_name = {species.name: species for species in species_list}

@@ -1,0 +1,255 @@
+"""Create/edit form of a species: the species fields plus one small form per state.
+
+The rules are not repeated here: the form builds a catalogue-file entry and
+hands it to the same reader that checks imported files, which asks the
+engine.  Each problem comes back with a field path (``dipole_debye.b``,
+``states[0].constants_mhz.B``) and is put next to the field it names.
+"""
+
+from __future__ import annotations
+
+import re
+
+from django import forms
+from django.core.exceptions import NON_FIELD_ERRORS
+
+from planner.catalogue_file.species_entry import parse_species
+from planner.engine import Species, allowed_parameters
+from planner.engine.species import MAX_DIPOLE_DEBYE
+
+from .models import (
+    FORMULA_LENGTH,
+    LABEL_LENGTH,
+    NAME_LENGTH,
+    REDUCTION_CHOICES,
+    REPRESENTATION_CHOICES,
+    ROTOR_CHOICES,
+    SPIN_AXIS_CHOICES,
+)
+
+CONSTANTS_HELP = "One constant per line: name, value [MHz], 1σ [MHz], e.g. “B 6081.4921 0.0002”. Give σ = 0 if unknown."
+_SEPARATORS = re.compile(r"[\s,=±;]+")
+
+
+def _number_input(**attrs):
+    return forms.NumberInput(attrs={"step": "any", **attrs})
+
+
+class SpeciesForm(forms.Form):
+    name = forms.CharField(max_length=NAME_LENGTH, help_text="Unique in the catalogue, e.g. H2CO or 13CO.")
+    formula = forms.CharField(max_length=FORMULA_LENGTH, help_text="Element symbols and counts, e.g. CH3CN, C[13]O.")
+    rotor = forms.ChoiceField(choices=ROTOR_CHOICES)
+    reduction = forms.ChoiceField(choices=REDUCTION_CHOICES, initial="A", help_text="Asymmetric tops only.")
+    representation = forms.ChoiceField(choices=REPRESENTATION_CHOICES, initial="Ir", help_text="Asymmetric tops only.")
+    mass_amu = forms.FloatField(
+        label="Mass [u]", required=False, widget=_number_input(min="0"), help_text="Empty: from the formula."
+    )
+    dipole_a_debye = forms.FloatField(label="μa [D]", initial=0, widget=_number_input(min="0", max="15"))
+    dipole_b_debye = forms.FloatField(label="μb [D]", initial=0, widget=_number_input(min="0", max="15"))
+    dipole_c_debye = forms.FloatField(label="μc [D]", initial=0, widget=_number_input(min="0", max="15"))
+    no_dipole = forms.BooleanField(
+        label="No permanent dipole: save it knowing it has no rotational lines",
+        required=False,
+    )
+    spin_axis = forms.ChoiceField(label="Spin statistics", choices=SPIN_AXIS_CHOICES, required=False)
+    spin_weight_even = forms.FloatField(
+        label="Weight of even levels (C3: K multiple of 3)", required=False, widget=_number_input(min="0")
+    )
+    spin_weight_odd = forms.FloatField(
+        label="Weight of odd levels (C3: other K)", required=False, widget=_number_input(min="0")
+    )
+    source = forms.CharField(widget=forms.Textarea(attrs={"rows": 2}), required=False)
+    notes = forms.CharField(widget=forms.Textarea(attrs={"rows": 2}), required=False)
+    hazards = forms.CharField(
+        label="Hazard notes",
+        widget=forms.Textarea(attrs={"rows": 2}),
+        required=False,
+        help_text="Handling cautions for the lab (toxic, flammable, …); shown wherever the species is planned.",
+    )
+    version = forms.IntegerField(widget=forms.HiddenInput, required=False)
+
+    def clean(self):
+        cleaned = super().clean()
+        dipoles = [cleaned.get(f"dipole_{axis}_debye") for axis in "abc"]
+        if all(mu == 0 for mu in dipoles) and not cleaned.get("no_dipole"):
+            self.add_error(
+                "dipole_a_debye",
+                "All three dipole components are zero: this species will have no rotational lines. "
+                "Give its dipole, or tick “No permanent dipole” to save it anyway.",
+            )
+        for axis, mu in zip("abc", dipoles):
+            if mu is not None and abs(mu) > MAX_DIPOLE_DEBYE:
+                self.add_error(f"dipole_{axis}_debye", f"Must be within 0–{MAX_DIPOLE_DEBYE:g} D.")
+        if cleaned.get("spin_axis") == "":
+            cleaned["spin_weight_even"] = cleaned["spin_weight_odd"] = None
+        else:
+            for name in ("spin_weight_even", "spin_weight_odd"):
+                if cleaned.get(name) is None and name not in self.errors:
+                    self.add_error(name, "Needed with spin statistics (0 for levels that do not exist).")
+        return cleaned
+
+
+class StateForm(forms.Form):
+    label = forms.CharField(max_length=LABEL_LENGTH, initial="v=0", help_text="e.g. v=0, v2=1")
+    energy_cm1 = forms.FloatField(label="Energy [cm⁻¹]", initial=0, widget=_number_input(min="0"))
+    constants = forms.CharField(
+        label="Constants",
+        widget=forms.Textarea(attrs={"rows": 6, "class": "constants", "spellcheck": "false"}),
+        help_text=CONSTANTS_HELP,
+    )
+
+    def clean_constants(self) -> dict[str, list[float]]:
+        """{NAME: [value, sigma]} [MHz] from the lines of the text box."""
+        constants, problems = {}, []
+        for number, line in enumerate(self.cleaned_data["constants"].splitlines(), start=1):
+            parts = [p for p in _SEPARATORS.split(line.strip()) if p]
+            if not parts:
+                continue
+            if len(parts) != 3:
+                problems.append(f"line {number}: give a name, a value and a σ, got “{line.strip()}”")
+                continue
+            name, *numbers = parts
+            try:
+                value, sigma = (float(x.replace("−", "-")) for x in numbers)
+            except ValueError:
+                problems.append(f"line {number}: value and σ must be numbers, got “{line.strip()}”")
+                continue
+            if name in constants:
+                problems.append(f"line {number}: {name} is given twice")
+            constants[name] = [value, sigma]
+        if problems:
+            raise forms.ValidationError(problems)
+        if not constants:
+            raise forms.ValidationError("Give at least the rotational constants of this state.")
+        return constants
+
+
+class BaseStateFormSet(forms.BaseFormSet):
+    def kept_forms(self) -> list[StateForm]:
+        """The states to save, in order: filled-in forms not marked for deletion."""
+        return [f for f in self.forms if f.has_changed() and not (self.can_delete and self._should_delete_form(f))]
+
+
+StateFormSet = forms.formset_factory(
+    StateForm, formset=BaseStateFormSet, extra=1, can_delete=True, min_num=1, validate_min=True
+)
+
+
+def constants_text(constants_mhz, rotor: str, reduction: str) -> str:
+    """The text-box form of a state's constants, in the engine's parameter order."""
+    order = allowed_parameters(rotor, reduction)
+    names = [n for n in order if n in constants_mhz] + [n for n in constants_mhz if n not in order]
+    return "\n".join(f"{n} {constants_mhz[n][0]:.12g} {constants_mhz[n][1]:.6g}" for n in names)
+
+
+def initial_data(species: Species, version: int) -> tuple[dict, list[dict]]:
+    """Initial values of both forms for editing ``species``."""
+    weights = species.spin_weights
+    form = {
+        "name": species.name,
+        "formula": species.formula,
+        "rotor": species.rotor,
+        "reduction": species.reduction,
+        "representation": species.representation,
+        "mass_amu": species.mass_amu,
+        "dipole_a_debye": species.dipole_debye[0],
+        "dipole_b_debye": species.dipole_debye[1],
+        "dipole_c_debye": species.dipole_debye[2],
+        "no_dipole": not species.has_dipole,
+        "spin_axis": weights.axis if weights else "",
+        "spin_weight_even": weights.even if weights else None,
+        "spin_weight_odd": weights.odd if weights else None,
+        "source": species.source,
+        "notes": species.notes,
+        "hazards": species.hazards,
+        "version": version,
+    }
+    states = [
+        {
+            "label": s.label,
+            "energy_cm1": s.energy_cm1,
+            "constants": constants_text(s.constants_mhz, species.rotor, species.reduction),
+        }
+        for s in species.states
+    ]
+    return form, states
+
+
+def validated_species(form: SpeciesForm, states: BaseStateFormSet) -> Species | None:
+    """The engine Species of two valid forms, or None after putting every problem next to its field."""
+    data = form.cleaned_data
+    kept = states.kept_forms()
+    entry = {
+        "name": data["name"],
+        "formula": data["formula"],
+        "rotor": data["rotor"],
+        "reduction": data["reduction"],
+        "representation": data["representation"],
+        "dipole_debye": {axis: data[f"dipole_{axis}_debye"] for axis in "abc"},
+        "states": [
+            {
+                "label": f.cleaned_data["label"],
+                "energy_cm1": f.cleaned_data["energy_cm1"],
+                "constants_mhz": f.cleaned_data["constants"],
+            }
+            for f in kept
+        ],
+        "source": data["source"],
+        "notes": data["notes"],
+        "hazards": data["hazards"],
+    }
+    if data["mass_amu"] is not None:
+        entry["mass_amu"] = data["mass_amu"]
+    if data["spin_axis"]:
+        even_key, odd_key = ("k_multiple_of_3", "other") if data["spin_axis"] == "C3" else ("even", "odd")
+        entry["spin_weights"] = {
+            "axis": data["spin_axis"],
+            even_key: data["spin_weight_even"],
+            odd_key: data["spin_weight_odd"],
+        }
+    species, problems = parse_species(entry, data["name"])
+    for problem in problems:
+        _place(problem.field, problem.message, form, kept, states, entry)
+    return species
+
+
+_SPIN_FIELDS = {
+    "spin_weights": "spin_axis",
+    "spin_weights.axis": "spin_axis",
+    "spin_weights.even": "spin_weight_even",
+    "spin_weights.k_multiple_of_3": "spin_weight_even",
+    "spin_weights.odd": "spin_weight_odd",
+    "spin_weights.other": "spin_weight_odd",
+}
+_STATE_PATH = re.compile(r"states\[(\d+)\](?:\.(label|energy_cm1|constants_mhz)(?:\.(.+))?)?$")
+
+
+def _place(path: str, message: str, form, kept, states, entry) -> None:
+    """Attach one reader problem to the form field that ``path`` names."""
+    if path in form.fields and path not in ("version",):
+        form.add_error(path, message)
+    elif path.startswith("dipole_debye"):
+        axis = path.rpartition(".")[2]
+        if axis not in "abc" or len(axis) != 1:
+            # a rule on the direction: put it on the first component that breaks it
+            allowed = "c" if entry["rotor"] == "symmetric-oblate" else "a"
+            axis = next((a for a in "abc" if a != allowed and entry["dipole_debye"][a]), allowed)
+        form.add_error(f"dipole_{axis}_debye", message)
+    elif path in _SPIN_FIELDS:
+        form.add_error(_SPIN_FIELDS[path], message)
+    elif match := _STATE_PATH.match(path):
+        index, key, parameter = int(match[1]), match[2], match[3]
+        target = kept[index] if index < len(kept) else None
+        if target is None:
+            states._non_form_errors.append(message)
+        elif key in (None, "label", "energy_cm1"):
+            target.add_error(key or None, message)
+        else:
+            target.add_error("constants", f"{parameter}: {message}" if parameter else message)
+    elif path == "states":
+        states._non_form_errors.append(message)
+    else:
+        form.add_error(None if path not in form.fields else path, f"{path}: {message}")
+
+
+__all__ = ["NON_FIELD_ERRORS", "SpeciesForm", "StateFormSet", "initial_data", "validated_species"]

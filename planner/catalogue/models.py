@@ -1,0 +1,121 @@
+"""The shared catalogue: species, their states, and each state's named constants.
+
+Constants are rows (name, value, σ) that the database can query, never a blob.
+Every table keeps its history (django-simple-history); all rows written by one
+edit share one history_date, which makes that edit one revision (see
+revisions.py).  Physics rules live in the engine and are checked before
+anything is written (store.py); the constraints here only guard the database.
+"""
+
+from __future__ import annotations
+
+from django.db import models
+from django.db.models import Q
+from simple_history.models import HistoricalRecords
+
+from planner.engine.species import MAX_DIPOLE_DEBYE, REDUCTIONS, REPRESENTATIONS, ROTOR_KINDS
+
+NAME_LENGTH = 100
+FORMULA_LENGTH = 100
+LABEL_LENGTH = 50
+PARAMETER_LENGTH = 20
+
+ROTOR_CHOICES = [(kind, kind.replace("-", " ")) for kind in ROTOR_KINDS]
+REDUCTION_CHOICES = [(r, f"{r}-reduction") for r in REDUCTIONS]
+REPRESENTATION_CHOICES = [(r, r) for r in REPRESENTATIONS]
+SPIN_AXIS_CHOICES = [
+    ("", "none (every level weight 1)"),
+    ("a", "C2 axis along a"),
+    ("b", "C2 axis along b"),
+    ("c", "C2 axis along c"),
+    ("C3", "C3 axis (symmetric top)"),
+]
+
+
+class Species(models.Model):
+    name = models.CharField(max_length=NAME_LENGTH, unique=True)
+    formula = models.CharField(max_length=FORMULA_LENGTH)
+    rotor = models.CharField(max_length=20, choices=ROTOR_CHOICES)
+    reduction = models.CharField(max_length=1, choices=REDUCTION_CHOICES, default="A")
+    representation = models.CharField(max_length=4, choices=REPRESENTATION_CHOICES, default="Ir")
+    mass_amu = models.FloatField(help_text="[u]")
+    dipole_a_debye = models.FloatField(default=0.0)
+    dipole_b_debye = models.FloatField(default=0.0)
+    dipole_c_debye = models.FloatField(default=0.0)
+    # Weights of "even" levels (K a multiple of 3 for C3) and of the others; both null without spin statistics.
+    spin_axis = models.CharField(max_length=2, choices=SPIN_AXIS_CHOICES, blank=True, default="")
+    spin_weight_even = models.FloatField(null=True, blank=True)
+    spin_weight_odd = models.FloatField(null=True, blank=True)
+    source = models.TextField(blank=True, default="")
+    notes = models.TextField(blank=True, default="")
+    hazards = models.TextField(blank=True, default="")
+    # Raised by every save; an edit started from an older version is refused (store.py).
+    version = models.PositiveIntegerField(default=1)
+    updated_at = models.DateTimeField(auto_now=True)
+
+    history = HistoricalRecords()
+
+    class Meta:
+        ordering = ["name"]
+        verbose_name_plural = "species"
+        constraints = [
+            models.CheckConstraint(condition=Q(mass_amu__gt=0), name="species_mass_positive"),
+            *(
+                models.CheckConstraint(
+                    condition=Q(**{f"dipole_{axis}_debye__gte": -MAX_DIPOLE_DEBYE})
+                    & Q(**{f"dipole_{axis}_debye__lte": MAX_DIPOLE_DEBYE}),
+                    name=f"species_dipole_{axis}_in_range",
+                )
+                for axis in "abc"
+            ),
+        ]
+
+    def __str__(self) -> str:
+        return self.name
+
+    @property
+    def dipole_debye(self) -> tuple[float, float, float]:
+        return (self.dipole_a_debye, self.dipole_b_debye, self.dipole_c_debye)
+
+    @property
+    def dipole_types(self) -> str:
+        """ "a", "ab", ... : the axes with a non-zero dipole component; "" for none."""
+        return "".join(axis for axis, mu in zip("abc", self.dipole_debye) if mu)
+
+
+class State(models.Model):
+    species = models.ForeignKey(Species, related_name="states", on_delete=models.CASCADE)
+    position = models.PositiveSmallIntegerField(default=0)  # order within the species, ground state first
+    label = models.CharField(max_length=LABEL_LENGTH)
+    energy_cm1 = models.FloatField(default=0.0)
+
+    history = HistoricalRecords()
+
+    class Meta:
+        ordering = ["species", "position", "id"]
+        constraints = [
+            models.UniqueConstraint(fields=["species", "label"], name="state_label_unique_per_species"),
+            models.CheckConstraint(condition=Q(energy_cm1__gte=0), name="state_energy_not_negative"),
+        ]
+
+    def __str__(self) -> str:
+        return f"{self.species_id}: {self.label}"
+
+
+class Constant(models.Model):
+    state = models.ForeignKey(State, related_name="constants", on_delete=models.CASCADE)
+    name = models.CharField(max_length=PARAMETER_LENGTH)
+    value_mhz = models.FloatField()
+    sigma_mhz = models.FloatField(default=0.0)
+
+    history = HistoricalRecords()
+
+    class Meta:
+        ordering = ["state", "id"]
+        constraints = [
+            models.UniqueConstraint(fields=["state", "name"], name="constant_name_unique_per_state"),
+            models.CheckConstraint(condition=Q(sigma_mhz__gte=0), name="constant_sigma_not_negative"),
+        ]
+
+    def __str__(self) -> str:
+        return f"{self.name} = {self.value_mhz} ± {self.sigma_mhz} MHz"

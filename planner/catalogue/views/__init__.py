@@ -1,0 +1,1 @@
+"""Catalogue pages, one module per page group; urls.py names them."""
