@@ -21,7 +21,9 @@ setup: $(STAMP)
 migrate: setup
 	$(BIN)/python manage.py migrate --no-input
 
+# An empty catalogue gets the demo species and the demo account (its password is printed).
 run: migrate
+	$(BIN)/python manage.py load_demo --if-empty
 	$(BIN)/python manage.py runserver 127.0.0.1:8000
 
 test: migrate
