@@ -90,8 +90,13 @@ class SpeciesForm(forms.Form):
 
 
 class StateForm(forms.Form):
-    label = forms.CharField(max_length=LABEL_LENGTH, initial="v=0", help_text="e.g. v=0, v2=1")
-    energy_cm1 = forms.FloatField(label="Energy [cm⁻¹]", initial=0, widget=_number_input(min="0"))
+    # No initial values: a blank extra form must stay "unchanged" so that the formset skips it.
+    label = forms.CharField(
+        max_length=LABEL_LENGTH, help_text="e.g. v=0, v2=1", widget=forms.TextInput(attrs={"placeholder": "v=0"})
+    )
+    energy_cm1 = forms.FloatField(
+        label="Energy [cm⁻¹]", help_text="Above the ground state.", widget=_number_input(min="0", placeholder="0")
+    )
     constants = forms.CharField(
         label="Constants",
         widget=forms.Textarea(attrs={"rows": 6, "class": "constants", "spellcheck": "false"}),
