@@ -181,3 +181,11 @@ def test_print_stylesheet_is_linked_for_print_and_summary_is_printable(viewer_cl
     summary = html.split('<div class="result-head">')[1].split("</dl>")[0]
     assert "no-print" not in summary  # temperature, window, Q(T), J limit and line count reach the paper
     assert f'id="line-count">{len(prediction.lines)}<' in summary
+
+
+def test_hazard_notes_of_the_species_are_shown_with_the_prediction(viewer_client, demo_with_lines, page_query):
+    species, _ = demo_with_lines
+    html = viewer_client.get(URL, page_query(species.name)).content.decode()
+    assert "Handling and hazards" in html
+    assert species.hazards.split(".")[0] in html
+    assert "ask the safety officer" in html
