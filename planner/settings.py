@@ -108,6 +108,13 @@ STORAGES = {
 # tests and `make run` work without collectstatic.
 WHITENOISE_USE_FINDERS = not PRODUCTION
 
+AUTH_PASSWORD_VALIDATORS = [
+    {"NAME": "django.contrib.auth.password_validation.UserAttributeSimilarityValidator"},
+    {"NAME": "django.contrib.auth.password_validation.MinimumLengthValidator", "OPTIONS": {"min_length": 10}},
+    {"NAME": "django.contrib.auth.password_validation.CommonPasswordValidator"},
+    {"NAME": "django.contrib.auth.password_validation.NumericPasswordValidator"},
+]
+
 # Every page needs a logged-in member of the group (see planner/catalogue/roles.py).
 LOGIN_URL = "login"
 LOGIN_REDIRECT_URL = "catalogue:list"

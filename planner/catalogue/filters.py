@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from django import forms
 from django.db.models import Count, Q
+from django.db.models.functions import Lower
 
 from .models import ROTOR_CHOICES
 from .models import Species as SpeciesRow
@@ -23,13 +24,15 @@ SORT_CHOICES = [
     ("-mass", "mass, heaviest first"),
     ("-updated", "last changed first"),
 ]
+# Names sort without regard to case, as people read them (CH3F beside c-C2H4O).
+_NAME = Lower("name")
 _ORDER = {
-    "name": ("name",),
-    "formula": ("formula", "name"),
-    "rotor": ("rotor", "name"),
-    "mass": ("mass_amu", "name"),
-    "-mass": ("-mass_amu", "name"),
-    "-updated": ("-updated_at", "name"),
+    "name": (_NAME, "name"),
+    "formula": (Lower("formula"), _NAME),
+    "rotor": ("rotor", _NAME),
+    "mass": ("mass_amu", _NAME),
+    "-mass": ("-mass_amu", _NAME),
+    "-updated": ("-updated_at", _NAME),
 }
 _NO_DIPOLE = Q(dipole_a_debye=0, dipole_b_debye=0, dipole_c_debye=0)
 

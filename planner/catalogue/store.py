@@ -230,5 +230,10 @@ def import_species(species_list: list[Species], stamp: Stamp) -> ImportSummary:
 
 
 def export_species() -> list[Species]:
-    """Every species of the catalogue, by name (the order of the export file)."""
-    return [species_of_row(row) for row in with_constants(SpeciesRow.objects.order_by("name"))]
+    """Every species of the catalogue, by name (the order of the export file).
+
+    Sorted here, not by the database, so that the file does not depend on the
+    database's collation.
+    """
+    species = [species_of_row(row) for row in with_constants(SpeciesRow.objects.all())]
+    return sorted(species, key=lambda s: s.name)

@@ -36,7 +36,8 @@ class ImportForm(forms.Form):
 @needs(VIEW, ADD, CHANGE)
 def import_page(request):
     problems: list[Problem] = []
-    form = ImportForm(request.POST or None, request.FILES or None)
+    # Bound on every POST, even an empty one, so that a missing file is reported.
+    form = ImportForm(request.POST, request.FILES) if request.method == "POST" else ImportForm()
     if request.method == "POST" and form.is_valid():
         upload = form.cleaned_data["catalogue_file"]
         try:
