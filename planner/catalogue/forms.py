@@ -181,40 +181,52 @@ def initial_data(species: Species, version: int) -> tuple[dict, list[dict]]:
 
 
 def validated_species(form: SpeciesForm, states: BaseStateFormSet) -> Species | None:
-    """The engine Species of two valid forms, or None after putting every problem next to its field."""
+    """The engine Species of the two forms, or None after putting every problem next to its field.
+
+    Call after ``is_valid()`` on both.  The engine's rules are checked even
+    when some fields already failed (with stand-ins for those), so that one
+    save shows every problem at once rather than in rounds.
+    """
     data = form.cleaned_data
-    kept = states.kept_forms()
+    if any(key not in data for key in ("name", "formula", "rotor", "reduction", "representation")):
+        return None  # without these the rules cannot be asked
+    checked = [f for f in states.kept_forms() if not f.errors]
     entry = {
         "name": data["name"],
         "formula": data["formula"],
         "rotor": data["rotor"],
         "reduction": data["reduction"],
         "representation": data["representation"],
-        "dipole_debye": {axis: data[f"dipole_{axis}_debye"] for axis in "abc"},
+        "dipole_debye": {axis: data.get(f"dipole_{axis}_debye") or 0.0 for axis in "abc"},
         "states": [
             {
                 "label": f.cleaned_data["label"],
                 "energy_cm1": f.cleaned_data["energy_cm1"],
                 "constants_mhz": f.cleaned_data["constants"],
             }
-            for f in kept
+            for f in checked
         ],
-        "source": data["source"],
-        "notes": data["notes"],
-        "hazards": data["hazards"],
+        "source": data.get("source", ""),
+        "notes": data.get("notes", ""),
+        "hazards": data.get("hazards", ""),
     }
-    if data["mass_amu"] is not None:
+    if data.get("mass_amu") is not None:
         entry["mass_amu"] = data["mass_amu"]
-    if data["spin_axis"]:
+    if data.get("spin_axis") and data.get("spin_weight_even") is not None and data.get("spin_weight_odd") is not None:
         even_key, odd_key = ("k_multiple_of_3", "other") if data["spin_axis"] == "C3" else ("even", "odd")
         entry["spin_weights"] = {
             "axis": data["spin_axis"],
             even_key: data["spin_weight_even"],
             odd_key: data["spin_weight_odd"],
         }
+    if not checked:
+        entry["states"] = [{"label": "?", "energy_cm1": 0.0, "constants_mhz": {}}]  # species-level rules only
     species, problems = parse_species(entry, data["name"])
     for problem in problems:
-        _place(problem.field, problem.message, form, kept, states, entry)
+        if checked or not problem.field.startswith("states"):
+            _place(problem.field, problem.message, form, checked, states, entry)
+    if form.errors or states.total_error_count():
+        return None
     return species
 
 
@@ -230,7 +242,9 @@ _STATE_PATH = re.compile(r"states\[(\d+)\](?:\.(label|energy_cm1|constants_mhz)(
 
 
 def _place(path: str, message: str, form, kept, states, entry) -> None:
-    """Attach one reader problem to the form field that ``path`` names."""
+    """Attach one reader problem to the form field that ``path`` names (unless it already has one)."""
+    if path in form.fields and path in form.errors:
+        return
     if path in form.fields and path not in ("version",):
         form.add_error(path, message)
     elif path.startswith("dipole_debye"):
@@ -239,9 +253,11 @@ def _place(path: str, message: str, form, kept, states, entry) -> None:
             # a rule on the direction: put it on the first component that breaks it
             allowed = "c" if entry["rotor"] == "symmetric-oblate" else "a"
             axis = next((a for a in "abc" if a != allowed and entry["dipole_debye"][a]), allowed)
-        form.add_error(f"dipole_{axis}_debye", message)
+        if f"dipole_{axis}_debye" not in form.errors:
+            form.add_error(f"dipole_{axis}_debye", message)
     elif path in _SPIN_FIELDS:
-        form.add_error(_SPIN_FIELDS[path], message)
+        if _SPIN_FIELDS[path] not in form.errors:
+            form.add_error(_SPIN_FIELDS[path], message)
     elif match := _STATE_PATH.match(path):
         index, key, parameter = int(match[1]), match[2], match[3]
         target = kept[index] if index < len(kept) else None

@@ -1,75 +1,41 @@
 """The spectrum page in a real browser: submit the form, see the plot and the table.
 
 Drives Debian's Chromium through playwright against pytest-django's live
-server.  Set LINECAST_SCREENSHOT_DIR to keep screenshots (screen and print
-media) of the rendered page for a human to look at.
+server, logged in as an editor through the login form (conftest.py).  Set
+LINECAST_SCREENSHOT_DIR to keep screenshots (screen and print media) of the
+rendered page for a human to look at.
 """
 
 import os
 from pathlib import Path
 
-import pytest
-
-from planner.catalogue_file import DEMO_CATALOGUE_PATH, load_catalogue
-
-CHROMIUM = Path("/usr/bin/chromium")
-CHROMIUM_ARGS = [
-    "--no-sandbox",
-    "--disable-gpu",
-    "--disable-quic",
-    "--no-first-run",
-    "--disable-background-networking",
-    "--disable-component-update",
-    "--disable-sync",
-]
-
-pytestmark = [
-    pytest.mark.browser,
-    pytest.mark.skipif(not CHROMIUM.exists(), reason="needs Debian's chromium at /usr/bin/chromium (CI installs it)"),
-]
+SPECTRUM = "/spectrum/"
 
 
-@pytest.fixture(scope="module", autouse=True)
-def allow_sync_django_next_to_playwright():
-    # playwright's sync API keeps an event loop running in this thread; Django
-    # would then refuse the live server's synchronous database set-up.
-    previous = os.environ.get("DJANGO_ALLOW_ASYNC_UNSAFE")
-    os.environ["DJANGO_ALLOW_ASYNC_UNSAFE"] = "true"
-    yield
-    if previous is None:
-        os.environ.pop("DJANGO_ALLOW_ASYNC_UNSAFE", None)
-    else:
-        os.environ["DJANGO_ALLOW_ASYNC_UNSAFE"] = previous
-
-
-@pytest.fixture
-def page():
-    from playwright.sync_api import sync_playwright
-
-    with sync_playwright() as playwright:
-        browser = playwright.chromium.launch(executable_path=str(CHROMIUM), args=CHROMIUM_ARGS)
-        context = browser.new_context(viewport={"width": 1400, "height": 1000})
-        page = context.new_page()
-        yield page
-        context.close()
-        browser.close()
-
-
-def _asymmetric_demo_species() -> str:
+def _asymmetric_demo_species(demo_catalogue) -> str:
     """An asymmetric top shows every table column (J Ka Kc, type), so it tests the most layout."""
-    species = load_catalogue(DEMO_CATALOGUE_PATH)
-    return next((s.name for s in species if s.rotor == "asymmetric" and s.has_dipole), species[0].name)
+    return next(
+        (s.name for s in demo_catalogue if s.rotor == "asymmetric" and s.has_dipole),
+        demo_catalogue[0].name,
+    )
 
 
-def test_submitting_the_form_draws_the_plot_and_fills_the_table(live_server, page):
-    page.goto(live_server.url + "/")
-    page.select_option("#id_species", _asymmetric_demo_species())
+def test_the_spectrum_page_needs_a_login(anonymous_page):
+    anonymous_page.goto(SPECTRUM)
+    assert "/accounts/login/?next=/spectrum/" in anonymous_page.url
+    assert anonymous_page.locator("#spectrum-form").count() == 0
+
+
+def test_submitting_the_form_draws_the_plot_and_fills_the_table(page, demo_catalogue, wait_for_plot, screenshot):
+    page.goto(SPECTRUM)
+    assert page.locator(".site-nav a[aria-current=page]").inner_text() == "Spectrum"
+    page.select_option("#id_species", _asymmetric_demo_species(demo_catalogue))
     page.fill("#id_temperature_k", "30")
     page.fill("#id_fmin_mhz", "0")
     page.fill("#id_fmax_mhz", "300000")
     page.click("#predict-button")
     page.wait_for_selector("#line-table tbody tr")
-    page.wait_for_selector("#spectrum-plot .main-svg", timeout=20_000)
+    wait_for_plot(page, "#spectrum-plot")
 
     assert page.locator("#spectrum-plot .main-svg").count() >= 1
     assert page.locator("#line-table tbody tr").count() > 0
@@ -78,18 +44,15 @@ def test_submitting_the_form_draws_the_plot_and_fills_the_table(live_server, pag
     page.check("#log-scale")
     page.wait_for_function("document.querySelector('#spectrum-plot').layout.yaxis.type === 'log'")
 
+    screenshot(page, "spectrum-desktop")
+    screenshot(page, "spectrum-print", print_media=True)
     shots = os.environ.get("LINECAST_SCREENSHOT_DIR")
     if shots:
-        Path(shots).mkdir(parents=True, exist_ok=True)
-        page.screenshot(path=f"{shots}/spectrum-desktop.png", full_page=False)
-        page.emulate_media(media="print")
-        page.screenshot(path=f"{shots}/spectrum-print.png", full_page=False)
-        page.pdf(path=f"{shots}/spectrum-print.pdf", format="A4", landscape=True)
-        page.emulate_media(media="screen")
+        page.pdf(path=str(Path(shots) / "spectrum-print.pdf"), format="A4", landscape=True)
 
 
-def test_form_error_is_shown_next_to_the_field_in_the_browser(live_server, page):
-    page.goto(live_server.url + "/")
+def test_form_error_is_shown_next_to_the_field_in_the_browser(page):
+    page.goto(SPECTRUM)
     page.fill("#id_temperature_k", "-10")
     page.click("#predict-button")
     page.wait_for_selector("#id_temperature_k_error")
@@ -97,8 +60,8 @@ def test_form_error_is_shown_next_to_the_field_in_the_browser(live_server, page)
     assert page.locator("#line-table").count() == 0
 
 
-def test_computing_note_shows_once_the_form_is_submitted(live_server, page):
-    page.goto(live_server.url + "/")
+def test_computing_note_shows_once_the_form_is_submitted(page):
+    page.goto(SPECTRUM)
     # Stop the navigation after the page's own submit handler has run, so the
     # page stays up to be looked at (listeners run in the order they were added).
     page.evaluate("document.getElementById('spectrum-form').addEventListener('submit', e => e.preventDefault())")
@@ -109,14 +72,15 @@ def test_computing_note_shows_once_the_form_is_submitted(live_server, page):
     assert page.locator("#predict-button").is_disabled()
 
 
-def test_printed_page_keeps_the_plot_at_page_width_and_hides_the_form(live_server, page):
-    page.goto(live_server.url + "/?species=OCS&temperature_k=300&fmin_mhz=0&fmax_mhz=120000")
-    page.wait_for_selector("#spectrum-plot .main-svg", timeout=20_000)
+def test_printed_page_keeps_the_plot_at_page_width_and_hides_the_form(page, wait_for_plot):
+    page.goto(SPECTRUM + "?species=OCS&temperature_k=300&fmin_mhz=0&fmax_mhz=120000")
+    wait_for_plot(page, "#spectrum-plot")
     page.evaluate("window.dispatchEvent(new Event('beforeprint'))")
     page.wait_for_function("document.querySelector('#spectrum-plot').layout.width === 1000")
     page.emulate_media(media="print")
     assert page.locator("#spectrum-plot .main-svg").first.is_visible()
     assert page.locator("#spectrum-form").is_hidden()
+    assert page.locator(".site-header").is_hidden()  # nav and the logout form stay off the paper
     assert page.locator("#line-table tbody tr").count() > 0
     page.evaluate("window.dispatchEvent(new Event('afterprint'))")
     page.wait_for_function(

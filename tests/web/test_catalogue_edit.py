@@ -163,3 +163,16 @@ def test_forms_carry_a_csrf_token(editor_client):
     row = SpeciesRow.objects.get(name="OCS")
     for url in (CREATE, reverse("catalogue:edit", args=[row.pk]), reverse("catalogue:delete", args=[row.pk])):
         assert 'name="csrfmiddlewaretoken"' in editor_client.get(url).content.decode()
+
+
+def test_one_save_shows_every_problem_at_once(editor_client):
+    # Zero dipoles (a form rule) and a negative B (an engine rule) in the same save.
+    response = editor_client.post(CREATE, species_post(dipole_a_debye="0", states=[("v=0", 0, "B -5 0")]))
+    errors = _errors(response)
+    assert any("no rotational lines" in e for e in errors["dipole_a_debye"])
+    assert any("B: must be > 0 MHz" in e for e in errors["states-0-constants"])
+
+
+def test_a_new_species_offers_no_delete_box_for_its_first_state(editor_client):
+    html = editor_client.get(CREATE).content.decode()
+    assert 'name="states-0-DELETE"' not in html

@@ -27,7 +27,7 @@ def test_constants_table_shows_value_sigma_and_their_units(viewer_client, demo_s
     value, sigma = so2.states[0].constants_mhz["A"]
     assert f"{value:.12g}" in html and f"{sigma:.3g}" in html
     assert f"{value / 1e3:.12g}" in html  # GHz
-    assert f"{value / MHZ_PER_CM1:.10g}" in html  # cm⁻¹ (CODATA c via scipy.constants)
+    assert f"{value / MHZ_PER_CM1:.8g}" in html  # cm⁻¹ (CODATA c via scipy.constants)
 
 
 def test_asymmetric_top_shows_kappa_and_inertial_defect(viewer_client, demo_species):
@@ -135,3 +135,9 @@ def test_engine_refusal_is_shown_not_raised(viewer_client, monkeypatch):
     response = _page(viewer_client, "SO2")
     assert response.status_code == 200
     assert "needs levels above J = 250" in response.content.decode()
+
+
+def test_first_visit_shows_the_default_temperatures_in_the_form(viewer_client):
+    html = _page(viewer_client, "OCS").content.decode()
+    assert 'name="temperature_k" value="300"' in html
+    assert 'name="temperatures_k" value="10, 75, 150, 300"' in html

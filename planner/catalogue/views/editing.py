@@ -26,6 +26,13 @@ def _bound_forms(request):
     return SpeciesForm(request.POST), StateFormSet(request.POST, prefix=STATES_PREFIX)
 
 
+def _checked_species(form, states):
+    """The engine Species of the posted forms, or None with every problem placed on the forms."""
+    form.is_valid()
+    states.is_valid()  # both, whatever the first says, so that one save shows every message
+    return validated_species(form, states)
+
+
 def _render(request, form, states, row=None, conflict=None, status=200):
     context = {"form": form, "states": states, "row": row, "conflict": conflict}
     return render(request, "catalogue/edit.html", context, status=status)
@@ -52,15 +59,14 @@ def species_create(request):
     if request.method != "POST":
         return _render(request, SpeciesForm(), StateFormSet(prefix=STATES_PREFIX))
     form, states = _bound_forms(request)
-    if form.is_valid() and states.is_valid():
-        species = validated_species(form, states)
-        if species is not None:
-            try:
-                row = create_species(species, Stamp(request.user, "created on the web"))
-            except (StoreError, CatalogueError) as error:
-                _store_problems(form, error)
-            else:
-                return _saved(request, row, "Created")
+    species = _checked_species(form, states)
+    if species is not None:
+        try:
+            row = create_species(species, Stamp(request.user, "created on the web"))
+        except (StoreError, CatalogueError) as error:
+            _store_problems(form, error)
+        else:
+            return _saved(request, row, "Created")
     return _render(request, form, states, status=400)
 
 
@@ -73,21 +79,20 @@ def species_edit(request, pk: int):
             request, SpeciesForm(initial=initial), StateFormSet(initial=state_initial, prefix=STATES_PREFIX), row
         )
     form, states = _bound_forms(request)
-    if form.is_valid() and states.is_valid():
-        species = validated_species(form, states)
-        if species is not None:
-            stamp = Stamp(request.user, "edited on the web")
-            try:
-                row = update_species(row, species, stamp, expected_version=form.cleaned_data["version"] or 0)
-            except EditConflict as conflict:
-                # Show the others' changes; a second save (from the new version) is the editor's informed choice.
-                form.data = form.data.copy()
-                form.data["version"] = conflict.current_version
-                return _render(request, form, states, row, conflict=conflict, status=409)
-            except (StoreError, CatalogueError) as error:
-                _store_problems(form, error)
-            else:
-                return _saved(request, row, "Saved")
+    species = _checked_species(form, states)
+    if species is not None:
+        stamp = Stamp(request.user, "edited on the web")
+        try:
+            row = update_species(row, species, stamp, expected_version=form.cleaned_data["version"] or 0)
+        except EditConflict as conflict:
+            # Show the others' changes; a second save (from the new version) is the editor's informed choice.
+            form.data = form.data.copy()
+            form.data["version"] = conflict.current_version
+            return _render(request, form, states, row, conflict=conflict, status=409)
+        except (StoreError, CatalogueError) as error:
+            _store_problems(form, error)
+        else:
+            return _saved(request, row, "Saved")
     return _render(request, form, states, row, status=400)
 
 

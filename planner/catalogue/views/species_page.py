@@ -17,6 +17,10 @@ from planner.spectra.forms import DEFAULT_FMAX_MHZ, DEFAULT_FMIN_MHZ
 from planner.spectra.plot import plot_data
 
 RECENT_REVISIONS = 5
+#: The page's spectrum is an overview: lines below 10⁻⁶ of the strongest possible one are left
+#: out and the plot draws the strongest few, which keeps the page light (the spectrum page has all).
+PAGE_RELATIVE_FLOOR = 1e-6
+PAGE_PLOT_LINES = 1500
 
 
 def _partition_rows(species, temperatures_k):
@@ -33,9 +37,11 @@ def _partition_rows(species, temperatures_k):
 def species_page(request, pk: int):
     row = get_object_or_404(with_constants(SpeciesRow.objects.all()), pk=pk)
     species = species_of_row(row)
-    page_form = SpeciesPageForm(request.GET)
-    page_form.is_valid()  # a bad field shows its error; the good ones (or the defaults) are used
-    data = page_form.cleaned_data
+    page_form = SpeciesPageForm(request.GET or None)
+    data = {}
+    if page_form.is_bound:
+        page_form.is_valid()  # a bad field shows its error; the good ones (or the defaults) are used
+        data = page_form.cleaned_data
     temperature_k = data.get("temperature_k", 300.0)
     order = allowed_parameters(species.rotor, species.reduction)
     states = [
@@ -59,7 +65,7 @@ def species_page(request, pk: int):
 
 def _spectrum(species, temperature_k: float) -> dict:
     """The stick spectrum over the default window, or the engine's reason for none."""
-    request = PredictionRequest(DEFAULT_FMIN_MHZ, DEFAULT_FMAX_MHZ, temperature_k)
+    request = PredictionRequest(DEFAULT_FMIN_MHZ, DEFAULT_FMAX_MHZ, temperature_k, relative_floor=PAGE_RELATIVE_FLOOR)
     try:
         prediction = predict(species, request)
     except ValueError as error:
@@ -67,7 +73,7 @@ def _spectrum(species, temperature_k: float) -> dict:
     records = prediction.records()
     return {
         "spectrum_error": "",
-        "plot": plot_data(records, species.rotor) if records else None,
+        "plot": plot_data(records, species.rotor, limit=PAGE_PLOT_LINES) if records else None,
         "spectrum_messages": prediction.messages,
         "line_count": len(records),
         "window": (DEFAULT_FMIN_MHZ, DEFAULT_FMAX_MHZ),

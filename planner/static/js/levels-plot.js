@@ -36,4 +36,11 @@
   };
   Plotly.react(holder, traces, layout, {responsive: true, displaylogo: false,
     toImageButtonOptions: {format: "png", filename: "linecast-levels"}});
+  // On paper: the height the print stylesheet gives the diagram, then back to the window's size.
+  window.addEventListener("beforeprint", function () {
+    Plotly.relayout(holder, {width: 1000, height: 260});
+  });
+  window.addEventListener("afterprint", function () {
+    Plotly.relayout(holder, {width: null, height: null, autosize: true});
+  });
 })();
