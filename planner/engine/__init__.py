@@ -6,6 +6,8 @@ Pure numpy/scipy; nothing here imports Django.  Entry points:
 """
 
 from .linelist import LINE_COLUMNS, LineTable, Prediction, merge
+from .measurement import DEFAULT_RELATIVE_MODEL, AbsorptionCell, RelativeModel, time_to_snr_s
+from .plan import PlanRequest, PlanResult, PlanSpecies, make_plan, signal_vs_temperature
 from .predict import EngineLimitError, predict, predict_many
 from .request import PredictionRequest
 from .species import Species, SpeciesError, SpinWeights, State, allowed_parameters
@@ -24,4 +26,13 @@ __all__ = [
     "SpinWeights",
     "State",
     "allowed_parameters",
+    "AbsorptionCell",
+    "DEFAULT_RELATIVE_MODEL",
+    "RelativeModel",
+    "time_to_snr_s",
+    "PlanRequest",
+    "PlanResult",
+    "PlanSpecies",
+    "make_plan",
+    "signal_vs_temperature",
 ]
