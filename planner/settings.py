@@ -31,6 +31,7 @@ INSTALLED_APPS = [
     "django.contrib.staticfiles",
     "simple_history",
     "planner.catalogue",
+    "planner.planning",
     "planner.spectra",
 ]
 
@@ -114,6 +115,10 @@ AUTH_PASSWORD_VALIDATORS = [
     {"NAME": "django.contrib.auth.password_validation.CommonPasswordValidator"},
     {"NAME": "django.contrib.auth.password_validation.NumericPasswordValidator"},
 ]
+
+# Predictions are cached by species version and conditions (planner/planning/compute.py), in
+# this process's memory; a group server with several worker processes may point this at a shared cache.
+CACHES = {"default": {"BACKEND": "django.core.cache.backends.locmem.LocMemCache", "OPTIONS": {"MAX_ENTRIES": 2000}}}
 
 # Every page needs a logged-in member of the group (see planner/catalogue/roles.py).
 LOGIN_URL = "login"

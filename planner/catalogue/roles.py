@@ -10,10 +10,20 @@ from django.contrib.auth.models import Group, Permission
 VIEWERS = "Viewers"
 EDITORS = "Editors"
 
-#: Permission codenames of each role on the catalogue models.
+#: Permissions (app label, codename) of each role: viewers read the catalogue and plans; editors also
+#: change the catalogue, keep the instrument profiles and save plans.
+_VIEW = (("catalogue", "view_species"), ("planning", "view_instrument"), ("planning", "view_savedplan"))
 ROLE_PERMISSIONS = {
-    VIEWERS: ("view_species",),
-    EDITORS: ("view_species", "add_species", "change_species", "delete_species"),
+    VIEWERS: _VIEW,
+    EDITORS: _VIEW
+    + (
+        ("catalogue", "add_species"),
+        ("catalogue", "change_species"),
+        ("catalogue", "delete_species"),
+        ("planning", "add_instrument"),
+        ("planning", "change_instrument"),
+        ("planning", "add_savedplan"),
+    ),
 }
 ROLE_BY_NAME = {"viewer": VIEWERS, "editor": EDITORS}
 
@@ -21,10 +31,16 @@ ROLE_BY_NAME = {"viewer": VIEWERS, "editor": EDITORS}
 def ensure_roles(**kwargs) -> dict[str, Group]:
     """Create the role groups with their permissions (idempotent; runs after every migrate)."""
     groups = {}
-    for name, codenames in ROLE_PERMISSIONS.items():
+    for name, wanted in ROLE_PERMISSIONS.items():
         group, _ = Group.objects.get_or_create(name=name)
-        permissions = Permission.objects.filter(content_type__app_label="catalogue", codename__in=codenames)
-        if permissions.count() == len(codenames):  # absent only while the catalogue tables are being created
+        permissions = [
+            permission
+            for permission in Permission.objects.filter(codename__in=[c for _, c in wanted]).select_related(
+                "content_type"
+            )
+            if (permission.content_type.app_label, permission.codename) in wanted
+        ]
+        if len(permissions) == len(wanted):  # fewer only while the apps' tables are being created
             group.permissions.set(permissions)
         groups[name] = group
     return groups

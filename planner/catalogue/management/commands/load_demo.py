@@ -16,12 +16,16 @@ from planner.catalogue.models import Species as SpeciesRow
 from planner.catalogue.roles import give_role
 from planner.catalogue.store import Stamp, import_species
 from planner.catalogue_file import DEMO_CATALOGUE_PATH, load_catalogue
+from planner.planning.demo import load_demo_instruments
 
 DEMO_USERNAME = "demo"
 
 
 class Command(BaseCommand):
-    help = "Load the demo catalogue (planner/demo/catalogue.json) and create the demo editor, printing its password."
+    help = (
+        "Load the demo catalogue (planner/demo/catalogue.json) and instrument profiles, and create the demo editor, "
+        "printing its password."
+    )
 
     def add_arguments(self, parser):
         parser.add_argument(
@@ -40,7 +44,8 @@ class Command(BaseCommand):
             user.set_password(password)
             user.save()
             give_role(user, "editor")
-        self.stdout.write(f"demo catalogue loaded: {summary}")
+            instruments = load_demo_instruments()
+        self.stdout.write(f"demo catalogue loaded: {summary}; instrument profiles added: {len(instruments)}")
         self.stdout.write(
             self.style.SUCCESS(f"demo editor account: user name {DEMO_USERNAME!r}, password {password!r}")
             + "\n(for trying Linecast out on this machine only; delete it before the group uses the server)"
