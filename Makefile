@@ -33,5 +33,6 @@ lint: setup
 	$(BIN)/ruff check .
 	$(BIN)/ruff format --check .
 
-bench: setup
+bench: migrate
 	$(BIN)/python -m planner.engine.benchmark
+	$(BIN)/python manage.py bench_plan

@@ -448,15 +448,19 @@ def _reason(i, j, chosen_option, time_s, time_left, options, number_of, request)
     )
 
 
-def signal_vs_temperature(request: PlanRequest, model, chosen: list[PlanSpecies], target_keys, temperatures_k) -> dict:
+def signal_vs_temperature(
+    request: PlanRequest, model, chosen: list[PlanSpecies], target_keys, temperatures_k, predict_function=None
+) -> dict:
     """Expected signal of some lines at several temperatures, for a plot of which temperature favours them.
 
     ``target_keys`` are :data:`LINE_KEY` tuples (see :func:`line_key`);
     ``temperatures_k`` [K].  Returns key -> list of expected signals (the
     model's unit), one per temperature, 0 where the line is not predicted.
     The plan's intensity floor is not applied, so curves do not jump to 0
-    where a line crosses it.
+    where a line crosses it.  ``predict_function(species, request)`` stands
+    in for :func:`predict` (a caller may pass a caching one).
     """
+    predict_function = predict_function or predict
     amounts = {p.species.name: float(p.amount) for p in chosen}
     by_name = {p.species.name: p.species for p in chosen}
     keys = [tuple(k) for k in target_keys]
@@ -469,7 +473,7 @@ def signal_vs_temperature(request: PlanRequest, model, chosen: list[PlanSpecies]
         window = request.prediction_request(temperature_k=float(temperature), floor=False)
         found: dict[tuple, float] = {}
         for name in wanted:
-            table = predict(by_name[name], window).lines
+            table = predict_function(by_name[name], window).lines
             signal = _signals(model, table, {name: amounts[name]}, float(temperature))
             for record, value in zip(table.records(), signal.tolist()):
                 found[line_key(record)] = value

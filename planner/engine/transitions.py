@@ -91,11 +91,26 @@ def asymmetric_transitions(
                 weight = weights[bra.first_level]
                 if weight == 0 or weight != other_weights[ket.first_level]:
                     continue
+                if not _may_reach_window(bra, ket, fmin_mhz, fmax_mhz):
+                    continue
                 size = -(-max(len(bra.k_values), len(ket.k_values)) // BATCH_STEP) * BATCH_STEP
                 first = (offsets[rung.j] + bra.first_level, offsets[other.j] + ket.first_level)
                 groups.setdefault(size, []).append((bra, ket, code, axis, first))
     parts = [_batch_transitions(items, size, fmin_mhz, fmax_mhz) for size, items in sorted(groups.items())]
     return TransitionSet.join(parts)
+
+
+def _may_reach_window(bra: BlockSolution, ket: BlockSolution, fmin_mhz: float, fmax_mhz: float) -> bool:
+    """False when no |E_ket − E_bra| of the pair can fall in the window (then its strengths are not needed)."""
+    low = ket.energies_mhz[0] - bra.energies_mhz[-1]  # energies of a block are sorted
+    high = ket.energies_mhz[-1] - bra.energies_mhz[0]
+    if low > 0:
+        reach = (low, high)
+    elif high < 0:
+        reach = (-high, -low)
+    else:
+        reach = (0.0, max(-low, high))
+    return reach[1] >= fmin_mhz and reach[0] <= fmax_mhz
 
 
 #: Block pairs are padded to a multiple of this size and batched together.

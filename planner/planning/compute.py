@@ -65,10 +65,8 @@ def default_model_inputs() -> dict:
 
 
 def _prediction_key(row: SpeciesRow, request: PredictionRequest) -> str:
-    conditions = (row.pk, row.version, request.fmin_mhz, request.fmax_mhz, request.temperature_k)
-    return (
-        "linecast-prediction:" + hashlib.sha1(repr(conditions + (request.min_intensity_nm2mhz,)).encode()).hexdigest()
-    )
+    # The request is a frozen dataclass: its repr names every condition (window, temperature, floors, cap).
+    return "linecast-prediction:" + hashlib.sha1(repr((row.pk, row.version, request)).encode()).hexdigest()
 
 
 def cached_prediction(row: SpeciesRow, species, request: PredictionRequest):
@@ -86,7 +84,21 @@ class PlanInputError(ValueError):
 
 
 def compute_plan(inputs: dict) -> dict:
-    """The frozen plan document for ``inputs`` (see the module docstring)."""
+    """The frozen plan document for ``inputs`` (see the module docstring).
+
+    The whole document is cached under the inputs and the version of every
+    catalogue species, so asking again when nothing changed costs a lookup.
+    """
+    versions = sorted(SpeciesRow.objects.values_list("pk", "version"))
+    key = "linecast-plan:" + hashlib.sha1(json.dumps([inputs, versions], sort_keys=True).encode()).hexdigest()
+    document = cache.get(key)
+    if document is None:
+        document = _compute_plan(inputs)
+        cache.set(key, document, CACHE_SECONDS)
+    return document
+
+
+def _compute_plan(inputs: dict) -> dict:
     rows = {row.name: row for row in with_constants(SpeciesRow.objects.all())}
     unknown = [s["name"] for s in inputs["species"] if s["name"] not in rows]
     if unknown:
@@ -121,7 +133,7 @@ def compute_plan(inputs: dict) -> dict:
     return {
         "inputs": inputs,
         "result": result,
-        "temperature_curve": _temperature_curve(request, model, chosen, result),
+        "temperature_curve": _temperature_curve(request, model, chosen, result, rows),
         "catalogue_versions": {name: [rows[name].pk, rows[name].version] for name in sorted(rows)},
         "hazards": {p.species.name: p.species.hazards for p in chosen},
         "computed_at": timezone.now().isoformat(timespec="seconds"),
@@ -131,14 +143,21 @@ def compute_plan(inputs: dict) -> dict:
 _KEY_FIELDS = ("species", "state", "j_up", "ka_up", "kc_up", "j_lo", "ka_lo", "kc_lo")
 
 
-def _temperature_curve(request, model, chosen, result) -> dict:
+def _temperature_curve(request, model, chosen, result, rows) -> dict:
     """Expected signal of the strongest targets at CURVE_TEMPERATURES_K, for the plot."""
     top = [t for t in result["targets"]][:CURVE_TARGETS]
     if not top:
         return {"temperatures_k": list(CURVE_TEMPERATURES_K), "lines": []}
     keys = [tuple(t[f] for f in _KEY_FIELDS) for t in top]
     try:
-        curves = signal_vs_temperature(request, model, chosen, keys, list(CURVE_TEMPERATURES_K))
+        curves = signal_vs_temperature(
+            request,
+            model,
+            chosen,
+            keys,
+            list(CURVE_TEMPERATURES_K),
+            predict_function=lambda species, window: cached_prediction(rows[species.name], species, window),
+        )
     except ValueError as error:
         return {"temperatures_k": list(CURVE_TEMPERATURES_K), "lines": [], "message": str(error)}
     lines = []

@@ -125,3 +125,22 @@ def test_a_state_too_high_to_be_populated_stops_at_once():
     prediction = predict(species, PredictionRequest(0.0, 1.0e6, 3.0))
     assert set(prediction.lines["state"]) == {"v=0"}
     assert prediction.j_max[species.name] < 20
+
+
+def test_a_narrow_window_gives_exactly_the_lines_of_a_wide_one_inside_it():
+    # Block pairs that cannot reach the window are skipped; nothing inside it may be lost.
+    so2 = Species(
+        name="SO2-like",
+        rotor="asymmetric",
+        mass_amu=64.0,
+        dipole_debye=(0.3, 1.6, 0.2),  # invented: all three types, to exercise every block pair
+        states=(State("v=0", 0.0, {"A": (60778.55, 0), "B": (10318.07, 0), "C": (8799.70, 0)}),),
+    )
+    # The absolute floor decides for both (the relative floor depends on the window edge).
+    wide = predict(so2, PredictionRequest(0.0, 1.0e6, 100.0, min_intensity_nm2mhz=1e-9, relative_floor=1e-15))
+    narrow = predict(
+        so2, PredictionRequest(150_000.0, 160_000.0, 100.0, min_intensity_nm2mhz=1e-9, relative_floor=1e-15)
+    )
+    inside = (wide.lines["frequency_mhz"] >= 150_000.0) & (wide.lines["frequency_mhz"] <= 160_000.0)
+    assert len(narrow.lines) == int(inside.sum()) > 0
+    np.testing.assert_array_equal(narrow.lines["frequency_mhz"], wide.lines["frequency_mhz"][inside])
