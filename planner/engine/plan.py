@@ -455,7 +455,8 @@ def signal_vs_temperature(
 
     ``target_keys`` are :data:`LINE_KEY` tuples (see :func:`line_key`);
     ``temperatures_k`` [K].  Returns key -> list of expected signals (the
-    model's unit), one per temperature, 0 where the line is not predicted.
+    model's unit), one per temperature, 0 where the line is not predicted
+    and NaN where the engine refuses the species at that temperature.
     The plan's intensity floor is not applied, so curves do not jump to 0
     where a line crosses it.  ``predict_function(species, request)`` stands
     in for :func:`predict` (a caller may pass a caching one).
@@ -472,11 +473,16 @@ def signal_vs_temperature(
     for temperature in temperatures_k:
         window = request.prediction_request(temperature_k=float(temperature), floor=False)
         found: dict[tuple, float] = {}
+        refused: set[str] = set()
         for name in wanted:
-            table = predict_function(by_name[name], window).lines
+            try:
+                table = predict_function(by_name[name], window).lines
+            except ValueError:  # e.g. EngineLimitError: no prediction at this temperature, not a zero signal
+                refused.add(name)
+                continue
             signal = _signals(model, table, {name: amounts[name]}, float(temperature))
             for record, value in zip(table.records(), signal.tolist()):
                 found[line_key(record)] = value
         for key in keys:
-            curves[key].append(found.get(key, 0.0))
+            curves[key].append(float("nan") if key[0] in refused else found.get(key, 0.0))
     return curves

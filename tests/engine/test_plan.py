@@ -339,3 +339,19 @@ def test_signal_versus_temperature():
     assert curves[missing] == [0.0, 0.0, 0.0]
     with pytest.raises(ValueError, match="not chosen: QQ"):
         signal_vs_temperature(request(), RelativeModel(1e-6), chosen, [("QQ",) + key_20[1:]], [10.0])
+
+
+def test_signal_versus_temperature_marks_refused_temperatures_as_nan():
+    from planner.engine import predict
+
+    chosen = [PlanSpecies(linear(), 0.5)]
+    key_20 = ("XY", "v=0", 1, None, None, 0, None, None)
+
+    def refuse_hot(species, window):
+        if window.temperature_k > 100:
+            raise ValueError("needs levels above the J cap")  # as EngineLimitError would
+        return predict(species, window)
+
+    curves = signal_vs_temperature(request(), RelativeModel(1e-6), chosen, [key_20], [10.0, 300.0], refuse_hot)
+    assert curves[key_20][0] == pytest.approx(0.5 * hand_intensity(0, 10.0), rel=1e-5)
+    assert np.isnan(curves[key_20][1])
