@@ -160,11 +160,16 @@ def _temperature_curve(request, model, chosen, result, rows) -> dict:
         )
     except ValueError as error:
         return {"temperatures_k": list(CURVE_TEMPERATURES_K), "lines": [], "message": str(error)}
-    lines = []
+    lines, refused = [], []
     for target, key in zip(top, keys):
         values = [None if not np.isfinite(v) else float(v) for v in curves[key]]
         lines.append({"rank": target["rank"], "label": target_label(target), "expected_signal": values})
-    return {"temperatures_k": list(CURVE_TEMPERATURES_K), "lines": lines}
+        refused += [t for t, v in zip(CURVE_TEMPERATURES_K, values) if v is None]
+    curve = {"temperatures_k": list(CURVE_TEMPERATURES_K), "lines": lines}
+    if refused:
+        hot = ", ".join(f"{t:g}" for t in sorted(set(refused)))
+        curve["message"] = f"No prediction at {hot} K for some of these species (the engine refuses them there)."
+    return curve
 
 
 def target_label(target: dict) -> str:

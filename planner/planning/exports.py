@@ -34,6 +34,7 @@ TARGET_COLUMNS = (
     "selected",
     "segment",
     "blends",
+    "reason",
 )
 SEGMENT_COLUMNS = ("number", "start_mhz", "stop_mhz", "width_mhz", "dwell_s", "target_ranks")
 

@@ -45,17 +45,19 @@ class PlanForm(forms.Form):
         label="Intensity floor [nm² MHz]", required=False, min_value=0, widget=_number(min="0", placeholder="none")
     )
     max_eu_k = forms.FloatField(
-        label="Max E_u [K]", required=False, min_value=0, widget=_number(min="0", placeholder="none")
+        label="Max upper-state energy [K]", required=False, min_value=0, widget=_number(min="0", placeholder="none")
     )
     pressure_pa = forms.FloatField(
         label="Pressure [Pa]", required=False, min_value=0, widget=_number(min="0"), help_text="Absorption cell only."
     )
 
-    def __init__(self, *args, species_names: list[str], **kwargs):
+    def __init__(self, *args, species: list[tuple[int, str]], **kwargs):
         super().__init__(*args, **kwargs)
-        self.species_names = species_names
-        for index, name in enumerate(species_names):
-            self.fields[f"amount_{index}"] = forms.FloatField(
+        # Keyed by the species' id, which never moves: a saved query or a plan being saved
+        # keeps its amounts on the right species when others are added to the catalogue.
+        self.species = species
+        for pk, name in species:
+            self.fields[f"amount_{pk}"] = forms.FloatField(
                 label=name,
                 required=False,
                 min_value=0,
@@ -63,7 +65,7 @@ class PlanForm(forms.Form):
             )
 
     def species_fields(self):
-        return [(name, self[f"amount_{index}"]) for index, name in enumerate(self.species_names)]
+        return [(name, self[f"amount_{pk}"]) for pk, name in self.species]
 
     def clean(self):
         cleaned = super().clean()
@@ -73,12 +75,8 @@ class PlanForm(forms.Form):
             if fmax <= fmin:
                 self.add_error("fmax", "Must be above the lower edge of the window.")
             cleaned["fmin_mhz"], cleaned["fmax_mhz"] = fmin * factor, fmax * factor
-        chosen = [
-            (name, cleaned.get(f"amount_{index}"))
-            for index, name in enumerate(self.species_names)
-            if cleaned.get(f"amount_{index}")
-        ]
-        if not chosen and not any(f"amount_{i}" in self.errors for i in range(len(self.species_names))):
+        chosen = [(name, cleaned[f"amount_{pk}"]) for pk, name in self.species if cleaned.get(f"amount_{pk}")]
+        if not chosen and not any(f"amount_{pk}" in self.errors for pk, _ in self.species):
             raise ValidationError("Give an abundance or mole fraction for at least one species.")
         if len(chosen) > MAX_SPECIES:
             raise ValidationError(f"Plan at most {MAX_SPECIES} species at once.")

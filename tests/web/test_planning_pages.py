@@ -18,8 +18,7 @@ PLAN = reverse("planning:plan")
 
 
 def _amount_field(client, name):
-    names = list(SpeciesRow.objects.order_by("name").values_list("name", flat=True))
-    return f"amount_{names.index(name)}"
+    return f"amount_{SpeciesRow.objects.get(name=name).pk}"
 
 
 def _query(client, **overrides):
@@ -66,7 +65,7 @@ def test_first_visit_shows_the_form_with_every_species(viewer_client, demo_speci
     html = viewer_client.get(PLAN).content.decode()
     for species in demo_species:
         assert f"<span>{species.name}</span>" in html
-    for label in ("Temperature [K]", "Slot [min]", "Required SNR", "Scan margin [×σ]", "Max E_u [K]"):
+    for label in ("Temperature [K]", "Slot [min]", "Required SNR", "Scan margin [×σ]", "Max upper-state energy [K]"):
         assert label in html
 
 
@@ -267,3 +266,26 @@ def test_editor_creates_an_instrument_profile_and_a_viewer_cannot(editor_client,
     client.force_login(make_member("vic", "viewer"))
     assert client.get(reverse("planning:instrument_create")).status_code == 403
     assert client.get(reverse("planning:instruments")).status_code == 200
+
+
+def test_amounts_stay_on_their_species_when_the_catalogue_grows(editor_client, use_catalogue):
+    query = _query(editor_client)
+    ocs = SpeciesRow.objects.get(name="OCS")
+    # A species whose name sorts before OCS arrives between planning and saving (invented constants).
+    from planner.catalogue.store import Stamp, create_species
+    from planner.engine import Species, State
+
+    create_species(
+        Species(
+            name="AAA",
+            rotor="linear",
+            mass_amu=30.0,
+            dipole_debye=(1.0, 0, 0),
+            states=(State("v=0", 0.0, {"B": (20000.0, 0.0)}),),
+        ),
+        Stamp(None, "test"),
+    )
+    editor_client.post(reverse("planning:save"), query | {"plan_name": "grown"})
+    plan = SavedPlan.objects.get(name="grown")
+    assert [s["name"] for s in plan.inputs["species"]] == ["OCS", "SO2"]
+    assert f"amount_{ocs.pk}" in query

@@ -23,3 +23,15 @@ def quantum_text(target: dict) -> str:
         )
 
     return f"{level('up')} ← {level('lo')}"
+
+
+@register.filter
+def dwell_text(seconds) -> str:
+    """A dwell time as the operator sets it: under 1 s says so, else 3 digits with minutes where useful."""
+    if seconds is None:
+        return ""
+    if seconds < 1:
+        return "< 1 s"
+    if seconds < 120:
+        return f"{seconds:.3g} s"
+    return f"{seconds / 60:.3g} min"

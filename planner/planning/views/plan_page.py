@@ -13,13 +13,13 @@ from planner.planning.models import SavedPlan
 from planner.planning.presentation import plan_context
 
 
-def _species_names() -> list[str]:
-    return list(SpeciesRow.objects.order_by("name").values_list("name", flat=True))
+def _species() -> list[tuple[int, str]]:
+    return list(SpeciesRow.objects.order_by("name").values_list("pk", "name"))
 
 
 def _bound_plan(data):
     """(form, document or None): the plan of valid form data; problems end up on the form."""
-    form = PlanForm(data, species_names=_species_names())
+    form = PlanForm(data, species=_species())
     if not form.is_valid():
         return form, None
     try:
@@ -32,7 +32,7 @@ def _bound_plan(data):
 @needs(VIEW)
 def plan_page(request):
     if not request.GET:
-        return render(request, "planning/plan.html", {"form": PlanForm(species_names=_species_names())})
+        return render(request, "planning/plan.html", {"form": PlanForm(species=_species())})
     form, document = _bound_plan(request.GET)
     context = {"form": form, "document": document, "query": request.GET.urlencode(), "can_save": can_edit(request.user)}
     if document is not None:

@@ -6,6 +6,7 @@ import io
 
 from django.http import HttpResponse
 from django.shortcuts import get_object_or_404, render
+from django.utils.dateparse import parse_datetime
 
 from planner.catalogue.access import VIEW, needs
 from planner.planning.exports import plan_json, segments_csv, targets_csv
@@ -19,9 +20,13 @@ def document_of(plan: SavedPlan) -> dict:
 
 def _context(plan: SavedPlan) -> dict:
     document = document_of(plan)
-    return {"plan": plan, "document": document, "changed": catalogue_changes(plan.catalogue_versions)} | plan_context(
-        document
-    )
+    context = {
+        "plan": plan,
+        "document": document,
+        "changed": catalogue_changes(plan.catalogue_versions),
+        "computed_at": parse_datetime(document.get("computed_at") or ""),
+    }
+    return context | plan_context(document)
 
 
 @needs(VIEW)

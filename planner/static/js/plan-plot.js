@@ -64,10 +64,15 @@
   drawSpectrum();
   drawCurves();
   if (logBox) { logBox.addEventListener("change", drawSpectrum); }
+  // On paper both plots get the printable width and the heights print.css gives them.
+  var curveHolder = document.getElementById("curve-plot");
   window.addEventListener("beforeprint", function () {
     if (holder) { Plotly.relayout(holder, {width: 1000, height: 300}); }
+    if (curveHolder) { Plotly.relayout(curveHolder, {width: 1000, height: 260}); }
   });
   window.addEventListener("afterprint", function () {
-    if (holder) { Plotly.relayout(holder, {width: null, height: null, autosize: true}); }
+    [holder, curveHolder].forEach(function (h) {
+      if (h) { Plotly.relayout(h, {width: null, height: null, autosize: true}); }
+    });
   });
 })();
