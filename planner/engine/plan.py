@@ -429,6 +429,18 @@ def _left_out_row(target: dict, reason: str) -> dict:
     }
 
 
+_UNITS_S = (("years", 365.25 * 86400.0), ("days", 86400.0), ("h", 3600.0), ("min", 60.0))
+
+
+def duration_text(seconds: float) -> str:
+    """A time [s] as people read it: '45 s', '12 min', '3.2 h', '40 days', '2.4e+03 years'."""
+    for unit, size in _UNITS_S:
+        if seconds >= 2 * size:
+            value = seconds / size
+            return f"{value:.3g} {unit}" if value < 1e4 else f"{value:.2g} {unit}"
+    return f"{seconds:.3g} s"
+
+
 def _reason(i, j, chosen_option, time_s, time_left, options, number_of, request) -> str:
     """Why line i is not scheduled."""
     need = time_s[i]
@@ -436,7 +448,7 @@ def _reason(i, j, chosen_option, time_s, time_left, options, number_of, request)
         if not math.isfinite(need):
             return "no expected signal: it can never reach the SNR"
         extra = f" plus {request.retune_overhead_s:g} s retuning" if request.retune_overhead_s else ""
-        return f"would need {need:.3g} s{extra}, more than the slot ({request.slot_s:g} s)"
+        return f"would need {duration_text(need)}{extra}, more than the slot ({duration_text(request.slot_s)})"
     if j is None:
         return "centre outside the window"
     if j not in number_of:

@@ -86,7 +86,7 @@ def test_targets_are_the_lines_that_fit_the_slot():
     assert result.totals["used_s"] == pytest.approx(expected_dwell + 20.0)
     [left] = result.left_out
     assert left["rank"] == 3
-    assert left["reason"].startswith("would need 400 s plus 10 s retuning, more than the slot (100 s)")
+    assert left["reason"].startswith("would need 6.67 min plus 10 s retuning, more than the slot (100 s)")  # 400 s
 
 
 def test_segments_are_numbered_in_ascending_frequency_and_hold_their_targets():
@@ -210,7 +210,7 @@ def test_every_left_out_line_has_its_reason():
         "needs more dwell than chosen for its segment (needs 100 s, segment 1 gets 0.01 s"
     )
     assert reasons[14000.0].startswith("segment not chosen: slot full (95 s left, the segment needs 100 s)")
-    assert reasons[16000.0] == "would need 1e+04 s plus 10 s retuning, more than the slot (115 s)"
+    assert reasons[16000.0] == "would need 2.78 h plus 10 s retuning, more than the slot (115 s)"  # 1e4 s
     assert reasons[18000.0] == "above max Eu: E_u = 500.0 K > 300 K"
     assert result.totals["value"] == pytest.approx(1.5)
     assert result.totals["used_s"] == pytest.approx(20.05)
@@ -355,3 +355,13 @@ def test_signal_versus_temperature_marks_refused_temperatures_as_nan():
     curves = signal_vs_temperature(request(), RelativeModel(1e-6), chosen, [key_20], [10.0, 300.0], refuse_hot)
     assert curves[key_20][0] == pytest.approx(0.5 * hand_intensity(0, 10.0), rel=1e-5)
     assert np.isnan(curves[key_20][1])
+
+
+def test_durations_read_in_the_largest_sensible_unit():
+    from planner.engine.plan import duration_text
+
+    # textbook identities: 60 s/min, 3600 s/h, 86 400 s/day, 365.25 days/year
+    assert duration_text(45.0) == "45 s"
+    assert duration_text(400.0) == "6.67 min"
+    assert duration_text(3 * 86400.0) == "3 days"
+    assert duration_text(7.74e8) == "24.5 years"
