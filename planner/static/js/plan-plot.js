@@ -31,8 +31,11 @@
     var floor = log && all.length ? Math.min.apply(null, all) / 10 : 0;
     var traces = sticks(data.sticks.selected, "scheduled", "#1d4f91", floor)
       .concat(sticks(data.sticks.other, "not scheduled", "#b6412b", floor));
+    // A segment narrower than a few pixels would vanish: shade at least 0.3 % of the window around it.
+    var least = (data.window[1] - data.window[0]) * 0.003;
     var shapes = data.segments.map(function (s) {
-      return {type: "rect", xref: "x", yref: "paper", x0: s[0], x1: s[1], y0: 0, y1: 1,
+      var middle = (s[0] + s[1]) / 2, half = Math.max((s[1] - s[0]) / 2, least / 2);
+      return {type: "rect", xref: "x", yref: "paper", x0: middle - half, x1: middle + half, y0: 0, y1: 1,
               fillcolor: "rgba(29, 79, 145, 0.12)", line: {width: 0}, layer: "below"};
     });
     Plotly.react(holder, traces, {

@@ -22,7 +22,7 @@ from django.db import transaction
 
 from planner.catalogue.store import Stamp, import_species
 from planner.catalogue_file import DEMO_CATALOGUE_PATH, load_catalogue
-from planner.planning.compute import compute_plan
+from planner.planning.compute import _compute_plan, compute_plan
 from planner.planning.forms import instrument_inputs
 
 
@@ -71,6 +71,8 @@ class Command(BaseCommand):
                     cache.clear()
                     cleared.append(timed(lambda: compute_plan(inputs)))
                 unchanged = [timed(lambda: compute_plan(inputs)) for _ in range(options["repeats"])]
+                # The plan itself recomputed from cached predictions (what a changed slot or SNR costs).
+                recomputed = [timed(lambda: _compute_plan(inputs)) for _ in range(options["repeats"])]
                 targets = len(compute_plan(inputs)["result"]["targets"])
                 raise _RollBack
         except _RollBack:
@@ -82,7 +84,11 @@ class Command(BaseCommand):
             f"prediction cache cleared     {statistics.median(cleared) * 1e3:8.0f} ms   median of {len(cleared)}"
         )
         self.stdout.write(
+            f"predictions cached, replan   {statistics.median(recomputed) * 1e3:8.0f} ms   median of {len(recomputed)}"
+            " (ranking, blends, MILP, curves)"
+        )
+        self.stdout.write(
             f"nothing changed              {statistics.median(unchanged) * 1e3:8.0f} ms   median of {len(unchanged)}"
-            " (target <= 150 ms)"
+            " (whole plan cached; target <= 150 ms)"
         )
         self.stdout.write(f"process peak RSS             {rss_mb:8.0f} MB   (target < 300 MB)")
