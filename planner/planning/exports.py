@@ -64,5 +64,12 @@ def segments_csv(document: dict, file) -> None:
         writer.writerow([_cell(row.get(key)) for key in SEGMENT_COLUMNS])
 
 
+def plan_file_content(document: dict) -> dict:
+    """The plan JSON: the engine's result keys at the top (targets, segments, left_out, totals, ...)
+    beside the inputs, the catalogue versions used, the hazard notes and the temperature curves."""
+    outer = {key: value for key, value in document.items() if key != "result"}
+    return {"inputs": outer.pop("inputs"), **document["result"], **outer}
+
+
 def plan_json(document: dict) -> str:
-    return document_json(document) + "\n"
+    return document_json(plan_file_content(document)) + "\n"

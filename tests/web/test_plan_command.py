@@ -44,14 +44,34 @@ def test_json_has_inputs_targets_segments_and_left_out(tmp_path):
     document = json.loads(path.read_text())
     assert document["inputs"]["species"] == [{"name": "OCS", "amount": 1.0}]
     assert document["inputs"]["model"]["kind"] == "relative"
-    assert {"targets", "segments", "left_out", "totals"} <= set(document["result"])
-    assert document["result"]["totals"]["used_s"] <= 1800
+    assert {"inputs", "targets", "segments", "left_out", "totals"} <= set(document)
+    assert document["totals"]["used_s"] <= 1800
+    target = document["targets"][0]
+    for key in (
+        "rank",
+        "species",
+        "state",
+        "j_up",
+        "ka_up",
+        "kc_up",
+        "j_lo",
+        "ka_lo",
+        "kc_lo",
+        "frequency_mhz",
+        "sigma_mhz",
+        "expected_signal",
+        "time_to_snr_s",
+        "selected",
+    ):
+        assert key in target
+    for item in document["left_out"]:
+        assert item["reason"]
 
 
 def test_a_longer_slot_schedules_at_least_as_much():
     short = json.loads(run(*ARGS, "--slot-minutes", "1", "--species", "SO2", "--format", "json"))
     long = json.loads(run(*ARGS, "--slot-minutes", "120", "--species", "SO2", "--format", "json"))
-    assert long["result"]["totals"]["selected_count"] >= short["result"]["totals"]["selected_count"]
+    assert long["totals"]["selected_count"] >= short["totals"]["selected_count"]
 
 
 def test_unknown_species_and_bad_window_are_command_errors():

@@ -203,8 +203,8 @@ def test_plan_json_holds_inputs_targets_segments_and_left_out(editor_client):
     plan = _save(editor_client)
     document = json.loads(editor_client.get(reverse("planning:plan_json", args=[plan.pk])).content)
     assert document["inputs"] == plan.inputs
-    result = document["result"]
-    assert {"targets", "segments", "left_out", "totals"} <= set(result)
+    result = document  # the result keys sit at the top of the file, beside the inputs
+    assert {"inputs", "targets", "segments", "left_out", "totals", "catalogue_versions"} <= set(result)
     target = result["targets"][0]
     for key in (
         "rank",
