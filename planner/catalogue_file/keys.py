@@ -22,7 +22,9 @@ SPECIES_KEYS = (
     "hazards",
 )
 REQUIRED_SPECIES_KEYS = ("name", "formula", "rotor", "dipole_debye", "states")
-STATE_KEYS = ("label", "energy_cm1", "constants_mhz")
+STATE_KEYS = ("label", "energy_cm1", "constants_mhz", "covariance_mhz2")
+REQUIRED_STATE_KEYS = ("label", "energy_cm1", "constants_mhz")
+COVARIANCE_KEYS = ("names", "matrix")
 DIPOLE_AXES = ("a", "b", "c")
 
 #: Spin-weight axis -> (file key of SpinWeights.even, file key of SpinWeights.odd).

@@ -14,7 +14,15 @@ import json
 
 from planner.engine.species import REDUCTIONS, REPRESENTATIONS, ROTOR_KINDS, Species, SpeciesError, SpinWeights, State
 
-from .keys import DIPOLE_AXES, REQUIRED_SPECIES_KEYS, SPECIES_KEYS, SPIN_WEIGHT_KEYS, STATE_KEYS
+from .keys import (
+    COVARIANCE_KEYS,
+    DIPOLE_AXES,
+    REQUIRED_SPECIES_KEYS,
+    REQUIRED_STATE_KEYS,
+    SPECIES_KEYS,
+    SPIN_WEIGHT_KEYS,
+    STATE_KEYS,
+)
 from .masses import mass_from_formula
 from .problems import Problem
 
@@ -224,7 +232,7 @@ def _state(report, item, where: str) -> State | None:
         report.add(where, f"must be an object with label, energy_cm1 and constants_mhz, got {json_type(item)}")
         return None
     check_keys(report, item, STATE_KEYS, f"{where}.")
-    for key in STATE_KEYS:
+    for key in REQUIRED_STATE_KEYS:
         if key not in item:
             report.add(f"{where}.{key}", "is required")
     label = item.get("label", "?")
@@ -236,7 +244,29 @@ def _state(report, item, where: str) -> State | None:
         report.add(f"{where}.energy_cm1", f"must be a number [cm^-1], got {json_type(energy)}")
         energy = 0.0
     constants = _constants(report, item.get("constants_mhz", {}), f"{where}.constants_mhz")
-    return State(label, energy, constants)
+    names, matrix = _covariance(report, item.get("covariance_mhz2"), f"{where}.covariance_mhz2")
+    return State(label, energy, constants, names, matrix)
+
+
+def _covariance(report, value, where: str) -> tuple[tuple[str, ...], tuple]:
+    """(names, matrix) of an optional covariance block; the engine checks symmetry and the diagonal."""
+    if value is None:
+        return (), ()
+    if not isinstance(value, dict):
+        report.add(where, f'must be an object {{"names": [...], "matrix": [[...]]}} [MHz²], got {json_type(value)}')
+        return (), ()
+    check_keys(report, value, COVARIANCE_KEYS, f"{where}.")
+    names, matrix = value.get("names"), value.get("matrix")
+    if not (isinstance(names, list) and all(isinstance(n, str) for n in names)):
+        report.add(f"{where}.names", "must be a list of constant names")
+        return (), ()
+    rows_ok = isinstance(matrix, list) and all(
+        isinstance(row, list) and all(is_number(x) for x in row) for row in matrix
+    )
+    if not rows_ok:
+        report.add(f"{where}.matrix", "must be a list of rows of numbers [MHz²]")
+        return (), ()
+    return tuple(names), tuple(tuple(row) for row in matrix)
 
 
 def _constants(report, value, where: str) -> dict[str, tuple[float, float]]:

@@ -61,15 +61,22 @@ def _species_entry(species: Species) -> dict:
         even_key, odd_key = SPIN_WEIGHT_KEYS[weights.axis]
         entry["spin_weights"] = {"axis": weights.axis, even_key: weights.even, odd_key: weights.odd}
     order = allowed_parameters(species.rotor, species.reduction)
-    entry["states"] = [
-        {
-            "label": state.label,
-            "energy_cm1": state.energy_cm1,
-            "constants_mhz": {name: list(state.constants_mhz[name]) for name in order if name in state.constants_mhz},
-        }
-        for state in species.states
-    ]
+    entry["states"] = [_state_entry(state, order) for state in species.states]
     entry["source"] = species.source
     entry["notes"] = species.notes
     entry["hazards"] = species.hazards
+    return entry
+
+
+def _state_entry(state, order) -> dict:
+    entry = {
+        "label": state.label,
+        "energy_cm1": state.energy_cm1,
+        "constants_mhz": {name: list(state.constants_mhz[name]) for name in order if name in state.constants_mhz},
+    }
+    if state.covariance_names:
+        entry["covariance_mhz2"] = {
+            "names": list(state.covariance_names),
+            "matrix": [list(row) for row in state.covariance_mhz2],
+        }
     return entry

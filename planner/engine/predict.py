@@ -66,6 +66,33 @@ def _state_lines(
     return _line_table(species, ladder, found, request, partition, floor)
 
 
+def _frequency_sigma(ladder: StateLadder, up: np.ndarray, lo: np.ndarray) -> np.ndarray:
+    """1σ of each line frequency [MHz] from the constants' uncertainties.
+
+    σν² = gᵀ C g with g = ∂ν/∂p = ∂E_u/∂p − ∂E_l/∂p (Hellmann–Feynman derivatives
+    of the levels) and C the covariance of the constants: the state's stored
+    covariance block where it has one, σ_p² on the diagonal for the others.
+    """
+    names = list(ladder.parameter_names)
+    sigma = np.array([ladder.state.sigma(p) for p in names])
+    block_names, block = ladder.state.covariance()
+    correlated = [names.index(n) for n in block_names if n in names]
+    independent = np.ones(len(names), dtype=bool)
+    independent[correlated] = False
+    # (n_params, n_levels): gathering along the contiguous axis is several times faster than by rows.
+    derivatives = np.concatenate([r.derivatives for r in ladder.rungs]).T.copy()
+    scaled = derivatives[independent] * sigma[independent, None]
+    difference = np.take(scaled, up, axis=1)
+    difference -= np.take(scaled, lo, axis=1)
+    variance = np.einsum("pi,pi->i", difference, difference)
+    if correlated:
+        order = [block_names.index(names[i]) for i in correlated]
+        covariance = block[np.ix_(order, order)]
+        g = np.take(derivatives[correlated], up, axis=1) - np.take(derivatives[correlated], lo, axis=1)
+        variance += np.einsum("pi,pq,qi->i", g, covariance, g)
+    return np.sqrt(np.clip(variance, 0.0, None))
+
+
 def _line_table(
     species: Species,
     ladder: StateLadder,
@@ -98,14 +125,7 @@ def _line_table(
 
     j = ladder.flat_j()
     ka, kc = ladder.flat("ka"), ladder.flat("kc")
-    sigma = np.array([ladder.state.sigma(p) for p in ladder.parameter_names])
-    # (n_params, n_levels): gathering along the contiguous axis is several times faster than by rows.
-    scaled = (np.concatenate([r.derivatives for r in ladder.rungs]) * sigma).T.copy()
-
-    # Uncorrelated propagation: σν² = Σ_p (∂ν/∂p · σ_p)², ∂ν/∂p = ∂E_u/∂p − ∂E_l/∂p.
-    difference = np.take(scaled, up, axis=1)
-    difference -= np.take(scaled, lo, axis=1)
-    sigma_mhz = np.sqrt(np.einsum("pi,pi->i", difference, difference))
+    sigma_mhz = _frequency_sigma(ladder, up, lo)
     n = len(lo)
     constant_text = np.array([species.name, ladder.state.label], dtype=object)
     columns = {

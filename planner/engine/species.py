@@ -12,6 +12,8 @@ from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Mapping
 
+import numpy as np
+
 ROTOR_KINDS = ("linear", "symmetric-prolate", "symmetric-oblate", "asymmetric")
 REDUCTIONS = ("A", "S")
 REPRESENTATIONS = ("Ir", "IIIr")
@@ -136,12 +138,24 @@ class State:
     label: str
     energy_cm1: float
     constants_mhz: Mapping[str, tuple[float, float]]
+    #: Covariance of some of the constants (e.g. from a fit): the names and the symmetric matrix [MHz²]
+    #: in that order.  Its diagonal is the σ² of those constants; others stay uncorrelated.
+    covariance_names: tuple[str, ...] = ()
+    covariance_mhz2: tuple[tuple[float, ...], ...] = ()
 
     def __post_init__(self):
         object.__setattr__(
             self,
             "constants_mhz",
             MappingProxyType({k: (float(v[0]), float(v[1])) for k, v in dict(self.constants_mhz).items()}),
+        )
+        object.__setattr__(self, "covariance_names", tuple(self.covariance_names))
+        object.__setattr__(self, "covariance_mhz2", tuple(tuple(float(x) for x in row) for row in self.covariance_mhz2))
+
+    def covariance(self) -> tuple[tuple[str, ...], np.ndarray]:
+        """(names, matrix as a numpy array [MHz²]); an empty pair when the state has none."""
+        return self.covariance_names, np.array(self.covariance_mhz2, dtype=float).reshape(
+            len(self.covariance_names), len(self.covariance_names)
         )
 
     def value(self, name: str) -> float:
@@ -227,6 +241,7 @@ class Species:
             if not _finite(state.energy_cm1) or state.energy_cm1 < 0:
                 raise SpeciesError(f"{where}.energy_cm1", f"must be >= 0 cm-1, got {state.energy_cm1!r}")
             self._validate_constants(state, where, allowed)
+            self._validate_covariance(state, f"{where}.covariance_mhz2")
 
     def _validate_constants(self, state: State, where: str, allowed: tuple[str, ...]) -> None:
         for name, (value, sigma) in state.constants_mhz.items():
@@ -253,6 +268,31 @@ class Species:
             raise SpeciesError(f"{where}.constants_mhz.A", f"a prolate top needs A >= B, got A={a}, B={b} MHz")
         if self.rotor == "symmetric-oblate" and c > b:
             raise SpeciesError(f"{where}.constants_mhz.C", f"an oblate top needs C <= B, got C={c}, B={b} MHz")
+
+    @staticmethod
+    def _validate_covariance(state: State, where: str) -> None:
+        names, rows = state.covariance_names, state.covariance_mhz2
+        if not names and not rows:
+            return
+        if len(set(names)) != len(names):
+            raise SpeciesError(f"{where}.names", "a constant is named twice")
+        missing = [n for n in names if n not in state.constants_mhz]
+        if missing:
+            raise SpeciesError(f"{where}.names", f"names constants the state does not list: {', '.join(missing)}")
+        if len(rows) != len(names) or any(len(row) != len(names) for row in rows):
+            raise SpeciesError(f"{where}.matrix", f"must be {len(names)} × {len(names)}, one row and column per name")
+        for i, row in enumerate(rows):
+            for j, value in enumerate(row):
+                if not _finite(value):
+                    raise SpeciesError(f"{where}.matrix", f"element [{i}][{j}] must be a finite number")
+                if not math.isclose(value, rows[j][i], rel_tol=1e-9, abs_tol=1e-300):
+                    raise SpeciesError(f"{where}.matrix", f"must be symmetric; [{i}][{j}] differs from [{j}][{i}]")
+            sigma = state.sigma(names[i])
+            if row[i] < 0 or not math.isclose(math.sqrt(row[i]), sigma, rel_tol=1e-6, abs_tol=1e-300):
+                raise SpeciesError(
+                    f"{where}.matrix",
+                    f"diagonal of {names[i]} must be its σ² = {sigma**2:.6g} MHz², got {row[i]:.6g}",
+                )
 
     @property
     def has_dipole(self) -> bool:

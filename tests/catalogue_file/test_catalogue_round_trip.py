@@ -25,7 +25,13 @@ def species_list():
             dipole_debye=(0.11, 0, 0),
             states=(
                 state("v=0", 0.0, B=(55101.01, 0.001), D=(0.1679, 1e-5), H=(1.5e-7, 2e-8)),
-                state("v=1", 2096.07, B=(54600.1, 0.05)),
+                State(
+                    "v=1",
+                    2096.07,
+                    {"B": (54600.1, 0.05), "D": (0.1679, 1e-4)},
+                    ("B", "D"),
+                    ((0.0025, 4.5e-6), (4.5e-6, 1e-8)),  # fixture covariance, correlation 0.9
+                ),
                 state("v=2", 4166.8, B=(54100.3, 0.5), D=(0.168, 0.001)),
             ),
             source="fixture [ 1  2 ] {odd}  spacing",
