@@ -54,6 +54,10 @@ def describe(species: Species | None) -> dict[str, str]:
             if name in state.constants_mhz:
                 value, sigma = state.constants_mhz[name]
                 fields[f"state {state.label}: {name} [MHz]"] = f"{_number(value)} ± {_number(sigma)}"
+        names, rows = state.covariance_names, state.covariance_mhz2
+        for i in range(len(names)):
+            for j in range(i + 1, len(names)):
+                fields[f"state {state.label}: cov({names[i]}, {names[j]}) [MHz²]"] = _number(rows[i][j])
     fields["state order"] = ", ".join(state.label for state in species.states)
     fields["source"] = species.source
     fields["notes"] = species.notes

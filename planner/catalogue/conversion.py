@@ -32,21 +32,41 @@ def engine_species(row, states) -> Species:
         mass_amu=row.mass_amu,
         dipole_debye=(row.dipole_a_debye, row.dipole_b_debye, row.dipole_c_debye),
         spin_weights=weights,
-        states=tuple(
-            State(state.label, state.energy_cm1, {c.name: (c.value_mhz, c.sigma_mhz) for c in constants})
-            for state, constants in states
-        ),
+        states=tuple(_state(state, constants, covariance) for state, constants, *covariance in states),
         source=row.source,
         notes=row.notes,
         hazards=row.hazards,
     )
 
 
+def _state(row, constants, covariance) -> State:
+    names, matrix = covariance_matrix(covariance[0] if covariance else [])
+    return State(row.label, row.energy_cm1, {c.name: (c.value_mhz, c.sigma_mhz) for c in constants}, names, matrix)
+
+
+def covariance_matrix(elements) -> tuple[tuple[str, ...], tuple[tuple[float, ...], ...]]:
+    """(names, full symmetric matrix) from upper-triangle elements (row, column, first, second, value)."""
+    if not elements:
+        return (), ()
+    size = max(e.column for e in elements) + 1
+    names = [""] * size
+    matrix = [[0.0] * size for _ in range(size)]
+    for e in elements:
+        names[e.row], names[e.column] = e.first, e.second
+        matrix[e.row][e.column] = matrix[e.column][e.row] = e.value_mhz2
+    return tuple(names), tuple(tuple(row) for row in matrix)
+
+
+def covariance_elements(state: State) -> list[tuple[int, int, str, str, float]]:
+    """The upper-triangle elements of a state's covariance, in storage order."""
+    names, rows = state.covariance_names, state.covariance_mhz2
+    return [(i, j, names[i], names[j], rows[i][j]) for i in range(len(names)) for j in range(i, len(names))]
+
+
 def with_constants(queryset):
-    """The species queryset with states and constants fetched in two more queries."""
-    return queryset.prefetch_related(
-        Prefetch("states", queryset=StateRow.objects.order_by("position", "id").prefetch_related(_ordered_constants()))
-    )
+    """The species queryset with states, constants and covariances fetched in three more queries."""
+    states = StateRow.objects.order_by("position", "id").prefetch_related(_ordered_constants(), "covariance")
+    return queryset.prefetch_related(Prefetch("states", queryset=states))
 
 
 def _ordered_constants():
@@ -55,7 +75,9 @@ def _ordered_constants():
 
 def species_of_row(row: SpeciesRow) -> Species:
     """The engine Species of a current row (use :func:`with_constants` on lists to save queries)."""
-    return engine_species(row, [(state, list(state.constants.all())) for state in row.states.all()])
+    return engine_species(
+        row, [(state, list(state.constants.all()), list(state.covariance.all())) for state in row.states.all()]
+    )
 
 
 def row_fields(species: Species) -> dict:

@@ -119,3 +119,26 @@ class Constant(models.Model):
 
     def __str__(self) -> str:
         return f"{self.name} = {self.value_mhz} ± {self.sigma_mhz} MHz"
+
+
+class CovarianceElement(models.Model):
+    """One element of a state's covariance of constants (upper triangle, first <= second in order)."""
+
+    state = models.ForeignKey(State, related_name="covariance", on_delete=models.CASCADE)
+    row = models.PositiveSmallIntegerField()  # positions in the covariance's name order
+    column = models.PositiveSmallIntegerField()
+    first = models.CharField(max_length=PARAMETER_LENGTH)
+    second = models.CharField(max_length=PARAMETER_LENGTH)
+    value_mhz2 = models.FloatField()
+
+    history = HistoricalRecords()
+
+    class Meta:
+        ordering = ["state", "row", "column"]
+        constraints = [
+            models.UniqueConstraint(fields=["state", "row", "column"], name="covariance_element_unique"),
+            models.CheckConstraint(condition=Q(column__gte=models.F("row")), name="covariance_upper_triangle"),
+        ]
+
+    def __str__(self) -> str:
+        return f"cov({self.first}, {self.second}) = {self.value_mhz2} MHz²"

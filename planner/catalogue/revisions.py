@@ -2,7 +2,7 @@
 
 Every edit stamps all the rows it writes or deletes with one history_date
 (store.py), so "the species as of revision r" is, per table, the latest
-historical row of each id at or before r's date that is not a deletion.  Three
+historical row of each id at or before r's date that is not a deletion.  Four
 queries fetch a species' whole history; the snapshots are put together here.
 """
 
@@ -15,7 +15,7 @@ from planner.engine import Species
 
 from .changes import Change, differences
 from .conversion import engine_species
-from .models import Constant
+from .models import Constant, CovarianceElement
 from .models import Species as SpeciesRow
 from .models import State as StateRow
 
@@ -47,7 +47,7 @@ def _latest_per_id(records, date: datetime) -> list:
 
 
 class Timeline:
-    """All historical rows of one species (3 queries), and its snapshot at any date."""
+    """All historical rows of one species (4 queries), and its snapshot at any date."""
 
     def __init__(self, species_id: int):
         self.species_id = species_id
@@ -58,6 +58,7 @@ class Timeline:
         self.state_records = list(StateRow.history.filter(species_id=species_id).order_by(*order))
         state_ids = {record.id for record in self.state_records}
         self.constant_records = list(Constant.history.filter(state_id__in=state_ids).order_by(*order))
+        self.covariance_records = list(CovarianceElement.history.filter(state_id__in=state_ids).order_by(*order))
 
     def snapshot(self, date: datetime) -> Species | None:
         """The species as it was at ``date``, or None when it did not exist then."""
@@ -68,7 +69,13 @@ class Timeline:
         constants: dict[int, list] = {}
         for constant in sorted(_latest_per_id(self.constant_records, date), key=lambda c: c.id):
             constants.setdefault(constant.state_id, []).append(constant)
-        return engine_species(current[0], [(state, constants.get(state.id, [])) for state in states])
+        covariance: dict[int, list] = {}
+        for element in _latest_per_id(self.covariance_records, date):
+            covariance.setdefault(element.state_id, []).append(element)
+        return engine_species(
+            current[0],
+            [(state, constants.get(state.id, []), covariance.get(state.id, [])) for state in states],
+        )
 
     def revisions(self) -> list[Revision]:
         """Every revision, newest first, each with its changes against the one before."""

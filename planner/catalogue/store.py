@@ -20,8 +20,8 @@ from planner.catalogue_file import CatalogueError, Problem
 from planner.engine import Species
 
 from .changes import Change, differences
-from .conversion import row_fields, species_of_row, with_constants
-from .models import FORMULA_LENGTH, LABEL_LENGTH, NAME_LENGTH, PARAMETER_LENGTH, Constant
+from .conversion import covariance_elements, row_fields, species_of_row, with_constants
+from .models import FORMULA_LENGTH, LABEL_LENGTH, NAME_LENGTH, PARAMETER_LENGTH, Constant, CovarianceElement
 from .models import Species as SpeciesRow
 from .models import State as StateRow
 from .revisions import Timeline
@@ -94,12 +94,27 @@ def _write_states(row: SpeciesRow, species: Species, stamp: Stamp) -> None:
                 stamp.on(constant).save()
         for constant in constants.values():
             stamp.on(constant).delete()
+        _write_covariance(state_row, state, stamp)
     for state_row in existing.values():
         _delete_state(state_row, stamp)
 
 
+def _write_covariance(state_row: StateRow, state, stamp: Stamp) -> None:
+    """Make the stored covariance elements of a state equal to ``state``'s (only changed ones are written)."""
+    stored = {(e.row, e.column): e for e in state_row.covariance.all()}
+    for row, column, first, second, value in covariance_elements(state):
+        element = stored.pop((row, column), None) or CovarianceElement(state=state_row, row=row, column=column)
+        if element.pk is None or (element.first, element.second, element.value_mhz2) != (first, second, value):
+            element.first, element.second, element.value_mhz2 = first, second, value
+            stamp.on(element).save()
+    for element in stored.values():
+        stamp.on(element).delete()
+
+
 def _delete_state(state_row: StateRow, stamp: Stamp) -> None:
     # One by one, so that every deleted row carries the edit's stamp in its history.
+    for element in state_row.covariance.all():
+        stamp.on(element).delete()
     for constant in state_row.constants.all():
         stamp.on(constant).delete()
     stamp.on(state_row).delete()

@@ -81,9 +81,9 @@ def test_unknown_filter_value_is_an_error_and_lists_nothing(viewer_client):
 
 
 def test_list_needs_a_fixed_number_of_queries(viewer_client, django_assert_num_queries):
-    # session, user, two permission lookups, rotor counts, total, species, states, constants, and
+    # session, user, two permission lookups, rotor counts, total, species, states, constants, covariances;
     # the header's permission check is cached: the count must not grow with the number of species.
-    with django_assert_num_queries(9):
+    with django_assert_num_queries(10):
         viewer_client.get(URL)
 
 
