@@ -32,6 +32,7 @@ INSTALLED_APPS = [
     "simple_history",
     "planner.catalogue",
     "planner.planning",
+    "planner.fitting",
     "planner.spectra",
 ]
 

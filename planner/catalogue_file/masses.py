@@ -41,3 +41,19 @@ def mass_from_formula(formula: str) -> float:
     if not mass > 0:
         raise ValueError(f"{formula!r} has no mass")
     return mass
+
+
+def atom_masses(formula: str) -> list[float]:
+    """The mass of each atom of ``formula`` [u], one entry per atom, in periodictable's atom order.
+
+    An element without an isotope mark gets its most abundant isotope (a
+    diatomic's bond length needs the masses of the atoms in the molecule, not
+    the natural mixture); ``C[13]O`` gets 13C.  ValueError if unreadable.
+    """
+    mass_from_formula(formula)  # the same checks and messages
+    masses = []
+    for atom, count in periodictable.formula(formula.strip()).atoms.items():
+        if getattr(atom, "isotope", None) is None:  # an element, not an isotope: take its commonest isotope
+            atom = max((atom[n] for n in atom.isotopes), key=lambda iso: iso.abundance)
+        masses.extend([float(atom.mass)] * int(count))
+    return masses

@@ -1,0 +1,99 @@
+"""The assigned-lines CSV: one measured line per row, read all or nothing.
+
+Columns (header required, any order): j_up, ka_up, kc_up, j_lo, ka_lo,
+kc_lo, frequency_mhz, sigma_mhz, and optionally state, note.  K of a
+symmetric top goes in ka_*; Ka and Kc stay blank for a linear molecule.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+
+from planner.engine.fitting import AssignedLine
+
+REQUIRED_COLUMNS = ("j_up", "ka_up", "kc_up", "j_lo", "ka_lo", "kc_lo", "frequency_mhz", "sigma_mhz")
+OPTIONAL_COLUMNS = ("state", "note")
+
+
+class LinesFileError(ValueError):
+    """Every problem of a lines file, each naming its row and column."""
+
+    def __init__(self, problems: list[str]):
+        self.problems = problems
+        super().__init__("\n".join(problems))
+
+
+def _integer(text: str, row: int, column: str, problems: list[str], blank_ok: bool) -> int | None:
+    text = text.strip()
+    if not text:
+        if not blank_ok:
+            problems.append(f"row {row}, {column}: is required")
+        return None
+    try:
+        value = int(text)
+    except ValueError:
+        problems.append(f"row {row}, {column}: must be a whole number, got {text!r}")
+        return None
+    if value < 0:
+        problems.append(f"row {row}, {column}: must be >= 0, got {value}")
+    return value
+
+
+def _number(text: str, row: int, column: str, problems: list[str]) -> float | None:
+    try:
+        value = float(text.strip())
+    except ValueError:
+        problems.append(f"row {row}, {column}: must be a number [MHz], got {text.strip()!r}")
+        return None
+    if not math.isfinite(value):
+        problems.append(f"row {row}, {column}: must be finite")
+        return None
+    return value
+
+
+def read_lines(text: str) -> list[AssignedLine]:
+    """The assigned lines of a CSV text; LinesFileError listing every problem."""
+    reader = csv.DictReader(io.StringIO(text))
+    header = [h.strip() for h in (reader.fieldnames or [])]
+    missing = [c for c in REQUIRED_COLUMNS if c not in header]
+    unknown = [c for c in header if c not in REQUIRED_COLUMNS + OPTIONAL_COLUMNS]
+    if missing or unknown:
+        problems = []
+        if missing:
+            problems.append(f"header: missing columns {', '.join(missing)}")
+        if unknown:
+            problems.append(
+                f"header: unknown columns {', '.join(unknown)}; "
+                f"allowed: {', '.join(REQUIRED_COLUMNS + OPTIONAL_COLUMNS)}"
+            )
+        raise LinesFileError(problems)
+    lines, problems = [], []
+    for row_number, raw in enumerate(reader, start=2):
+        row = {key.strip(): (value or "") for key, value in raw.items() if key is not None}
+        if not any(v.strip() for v in row.values()):
+            continue
+        numbers = {
+            c: _integer(row[c], row_number, c, problems, blank_ok=c not in ("j_up", "j_lo"))
+            for c in REQUIRED_COLUMNS[:6]
+        }
+        frequency = _number(row["frequency_mhz"], row_number, "frequency_mhz", problems)
+        sigma = _number(row["sigma_mhz"], row_number, "sigma_mhz", problems)
+        if sigma is not None and sigma <= 0:
+            problems.append(f"row {row_number}, sigma_mhz: must be > 0 (the line's 1σ weight), got {sigma}")
+        if not problems:
+            lines.append(
+                AssignedLine(
+                    **numbers,
+                    frequency_mhz=frequency,
+                    sigma_mhz=sigma,
+                    state=row.get("state", "").strip(),
+                    note=row.get("note", "").strip(),
+                )
+            )
+    if problems:
+        raise LinesFileError(problems)
+    if not lines:
+        raise LinesFileError(["the file holds no lines"])
+    return lines
