@@ -10,6 +10,7 @@ urlpatterns = [
     path("catalogue/", include("planner.catalogue.urls")),
     path("spectrum/", include("planner.spectra.urls")),
     path("planning/", include("planner.planning.urls")),
+    path("fitting/", include("planner.fitting.urls")),
     path("accounts/login/", auth_views.LoginView.as_view(), name="login"),
     path("accounts/logout/", auth_views.LogoutView.as_view(), name="logout"),
     path("admin/", admin.site.urls),

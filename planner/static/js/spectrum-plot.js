@@ -43,7 +43,10 @@
       all.push({
         type: "scatter", mode: "markers", x: s.frequency_mhz, y: s.intensity_nm2mhz,
         name: s.state, legendgroup: s.state, customdata: s.hover, hovertemplate: hover,
-        marker: {color: colour, size: 4}, showlegend: data.series.length > 1
+        marker: {color: colour, size: 4}, showlegend: data.series.length > 1,
+        // ±1σ of each frequency as a horizontal bar on the stick's top (visible when zoomed in)
+        error_x: {type: "data", array: s.hover.map(function (h) { return h[1] || 0; }),
+                  visible: true, color: colour, thickness: 1, width: 3}
       });
     });
     return all;

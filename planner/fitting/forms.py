@@ -1,0 +1,52 @@
+"""The fit form: species, constants to vary, assigned lines pasted or uploaded as CSV."""
+
+from __future__ import annotations
+
+from django import forms
+
+from planner.catalogue.models import Species
+
+from .lines_file import REQUIRED_COLUMNS, LinesFileError, read_lines
+
+MAX_LINES_BYTES = 1024 * 1024
+
+
+class FitForm(forms.Form):
+    species = forms.ModelChoiceField(queryset=Species.objects.order_by("name"))
+    vary = forms.CharField(label="Constants to fit", help_text="Comma-separated, e.g. B, D or A, B, C, DeltaJ.")
+    lines_text = forms.CharField(
+        label="Assigned lines (CSV)",
+        required=False,
+        widget=forms.Textarea(attrs={"rows": 10, "class": "constants", "spellcheck": "false"}),
+        help_text="Header: " + ",".join(REQUIRED_COLUMNS) + " (and optionally state, note). Blank Ka, Kc for linear.",
+    )
+    lines_file = forms.FileField(label="…or upload the CSV", required=False)
+
+    def clean_vary(self) -> list[str]:
+        names = [n.strip() for n in self.cleaned_data["vary"].replace(";", ",").split(",") if n.strip()]
+        if not names:
+            raise forms.ValidationError("Name at least one constant to fit.")
+        return names
+
+    def clean(self):
+        cleaned = super().clean()
+        upload = cleaned.get("lines_file")
+        text = cleaned.get("lines_text") or ""
+        if upload is not None:
+            if upload.size > MAX_LINES_BYTES:
+                self.add_error("lines_file", "The file is larger than 1 MB.")
+                return cleaned
+            try:
+                text = upload.read().decode("utf-8")
+            except UnicodeDecodeError:
+                self.add_error("lines_file", "The file is not UTF-8 text.")
+                return cleaned
+        if not text.strip():
+            self.add_error("lines_text", "Paste the assigned lines or upload a CSV file.")
+            return cleaned
+        try:
+            cleaned["lines"] = read_lines(text)
+        except LinesFileError as error:
+            self.add_error("lines_file" if upload is not None else "lines_text", error.problems)
+        cleaned["csv_text"] = text
+        return cleaned

@@ -1,0 +1,53 @@
+"""The stored form of a fit (JSON) and what the pages derive from it."""
+
+from __future__ import annotations
+
+import dataclasses
+
+from planner.catalogue_file.masses import atom_masses
+from planner.engine import State
+from planner.engine.derived import inertial_defect_amu_a2, moments_of_inertia_amu_a2
+from planner.engine.structure import bond_length_a
+
+
+def structure(result, species) -> list[tuple[str, str]]:
+    """(quantity, value text) derived from the fitted constants: r0 of a diatomic, moments, Δ."""
+    rows = []
+    if species.rotor == "linear" and "B" in result.names:
+        masses = atom_masses(species.formula)
+        if len(masses) == 2:
+            r0, sigma = bond_length_a(result.value("B"), *masses, sigma_b_mhz=result.sigma("B"))
+            rows.append(("r0 from B0 [Å]", f"{r0:.7f} ± {sigma:.2g}"))
+    fitted = result.fitted_species()
+    state = next(s for s in fitted.states if s.label == result.state)
+    if species.rotor == "asymmetric":
+        a, b, c = (state.value(n) for n in "ABC")
+        moments = moments_of_inertia_amu_a2(a, b, c)
+        rows += [(f"I{axis} [u Å²]", f"{value:.6g}") for axis, value in zip("abc", moments)]
+        rows.append(("inertial defect Δ = Ic − Ia − Ib [u Å²]", f"{inertial_defect_amu_a2(a, b, c):.5g}"))
+    return rows
+
+
+def fit_document(result, species) -> dict:
+    document = result.to_dict()
+    for residual in document["residuals"]:  # the pages number lines from 1, as the CSV's rows are read
+        residual["blended_with"] = [i + 1 for i in residual["blended_with"]]
+    document["structure"] = structure(result, species)
+    return document
+
+
+def fitted_species_of(run, current):
+    """``current`` with the run's fitted values, σ and covariance in the fitted state."""
+    result = run.result
+    names = [c["name"] for c in result["constants"]]
+    states = []
+    for state in current.states:
+        if state.label != result["state"]:
+            states.append(state)
+            continue
+        constants = dict(state.constants_mhz)
+        for constant in result["constants"]:
+            constants[constant["name"]] = (constant["value_mhz"], constant["sigma_mhz"])
+        covariance = tuple(tuple(row) for row in result["covariance_mhz2"])
+        states.append(State(state.label, state.energy_cm1, constants, tuple(names), covariance))
+    return dataclasses.replace(current, states=tuple(states))

@@ -1,0 +1,10 @@
+from django.urls import path
+
+from planner.fitting import views
+
+app_name = "fitting"
+urlpatterns = [
+    path("", views.fit_page, name="fit"),
+    path("<int:pk>/", views.fit_run, name="run"),
+    path("<int:pk>/save/", views.save_fit, name="save"),
+]

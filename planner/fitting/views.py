@@ -1,0 +1,70 @@
+"""Fit pages: run a fit, read its report, save the refined constants as a new catalogue version."""
+
+from __future__ import annotations
+
+from django.contrib import messages
+from django.shortcuts import get_object_or_404, redirect, render
+
+from planner.catalogue.access import CHANGE, VIEW, can_edit, needs
+from planner.catalogue.conversion import species_of_row
+from planner.catalogue.models import Species as SpeciesRow
+from planner.catalogue.store import EditConflict, Stamp, StoreError, update_species
+from planner.engine.fitting import fit_constants
+
+from .forms import FitForm
+from .models import FitRun
+from .report import fit_document, fitted_species_of
+
+
+@needs(VIEW)
+def fit_page(request):
+    form = FitForm(request.POST or None, request.FILES or None, initial={"species": request.GET.get("species")})
+    if request.method == "POST" and form.is_valid():
+        row = form.cleaned_data["species"]
+        species = species_of_row(row)
+        try:
+            result = fit_constants(species, form.cleaned_data["lines"], form.cleaned_data["vary"])
+        except (ValueError, RuntimeError) as error:
+            form.add_error(None, f"Cannot fit: {error}")
+        else:
+            run = FitRun.objects.create(
+                species=row,
+                species_name=row.name,
+                species_version=row.version,
+                created_by=request.user,
+                lines_csv=form.cleaned_data["csv_text"],
+                vary=form.cleaned_data["vary"],
+                result=fit_document(result, species),
+            )
+            return redirect("fitting:run", pk=run.pk)
+    status = 400 if request.method == "POST" else 200
+    return render(request, "fitting/fit.html", {"form": form, "runs": FitRun.objects.all()[:10]}, status=status)
+
+
+@needs(VIEW)
+def fit_run(request, pk: int):
+    run = get_object_or_404(FitRun, pk=pk)
+    return render(request, "fitting/run.html", {"run": run, "result": run.result, "can_edit": can_edit(request.user)})
+
+
+@needs(VIEW, CHANGE)
+def save_fit(request, pk: int):
+    run = get_object_or_404(FitRun, pk=pk)
+    if request.method != "POST":
+        return redirect("fitting:run", pk=pk)
+    row = get_object_or_404(SpeciesRow, pk=run.species_id)
+    reason = f"fit {run.pk}: {len(run.result['residuals'])} lines, varied {', '.join(run.vary)}"
+    try:
+        saved = update_species(
+            row, fitted_species_of(run, species_of_row(row)), Stamp(request.user, reason), run.species_version
+        )
+    except EditConflict as conflict:
+        messages.error(request, f"Not saved: {conflict} Run the fit again on the current version.")
+        return redirect("fitting:run", pk=pk)
+    except StoreError as error:
+        messages.error(request, f"Not saved: {error}")
+        return redirect("fitting:run", pk=pk)
+    run.saved_as_version = saved.version
+    run.save(update_fields=["saved_as_version"])
+    messages.success(request, f"Saved the fitted constants as version {saved.version} of {saved.name}.")
+    return redirect("catalogue:species", pk=saved.pk)
