@@ -7,4 +7,5 @@ urlpatterns = [
     path("", views.fit_page, name="fit"),
     path("<int:pk>/", views.fit_run, name="run"),
     path("<int:pk>/save/", views.save_fit, name="save"),
+    path("substitution/", views.substitution_page, name="substitution"),
 ]

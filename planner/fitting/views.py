@@ -14,6 +14,7 @@ from planner.engine.fitting import fit_constants
 from .forms import FitForm
 from .models import FitRun
 from .report import fit_document, fitted_species_of
+from .substitution import substitution_coordinates
 
 
 @needs(VIEW)
@@ -68,3 +69,18 @@ def save_fit(request, pk: int):
     run.save(update_fields=["saved_as_version"])
     messages.success(request, f"Saved the fitted constants as version {saved.version} of {saved.name}.")
     return redirect("catalogue:species", pk=saved.pk)
+
+
+@needs(VIEW)
+def substitution_page(request):
+    """Kraitchman coordinates of the atom substituted between two catalogue species."""
+    rows = list(SpeciesRow.objects.order_by("name"))
+    by_pk = {str(row.pk): row for row in rows}
+    parent, substituted = by_pk.get(request.GET.get("parent", "")), by_pk.get(request.GET.get("substituted", ""))
+    context = {"rows": rows, "parent": parent, "substituted": substituted}
+    if parent and substituted:
+        try:
+            context["coordinates"] = substitution_coordinates(species_of_row(parent), species_of_row(substituted))
+        except ValueError as error:
+            context["error"] = str(error)
+    return render(request, "fitting/substitution.html", context)
