@@ -1,7 +1,9 @@
 """The assigned-lines CSV: one measured line per row, read all or nothing.
 
 Columns (header required, any order): j_up, ka_up, kc_up, j_lo, ka_lo,
-kc_lo, frequency_mhz, sigma_mhz, and optionally state, note.  K of a
+kc_lo, frequency_mhz, sigma_mhz, and optionally state, note, source (where
+the measurement comes from) and date (when it was measured); source and date
+are kept in the line's note.  K of a
 symmetric top goes in ka_*; Ka and Kc stay blank for a linear molecule.
 """
 
@@ -14,7 +16,7 @@ import math
 from planner.engine.fitting import AssignedLine
 
 REQUIRED_COLUMNS = ("j_up", "ka_up", "kc_up", "j_lo", "ka_lo", "kc_lo", "frequency_mhz", "sigma_mhz")
-OPTIONAL_COLUMNS = ("state", "note")
+OPTIONAL_COLUMNS = ("state", "note", "source", "date")
 
 
 class LinesFileError(ValueError):
@@ -89,7 +91,9 @@ def read_lines(text: str) -> list[AssignedLine]:
                     frequency_mhz=frequency,
                     sigma_mhz=sigma,
                     state=row.get("state", "").strip(),
-                    note=row.get("note", "").strip(),
+                    note=" · ".join(
+                        text for text in (row.get(key, "").strip() for key in ("note", "source", "date")) if text
+                    ),
                 )
             )
     if problems:

@@ -101,3 +101,10 @@ def test_unknown_species_is_a_command_error(tmp_path):
             "B",
             stdout=io.StringIO(),
         )
+
+
+def test_source_and_date_columns_travel_with_the_line():
+    text = "j_up,ka_up,kc_up,j_lo,ka_lo,kc_lo,frequency_mhz,sigma_mhz,note,source,date\n"
+    text += "1,,,0,,,115271.2018,0.0005,weak,cell run 3,2026-11-30\n"
+    (line,) = read_lines(text)
+    assert line.note == "weak · cell run 3 · 2026-11-30"
