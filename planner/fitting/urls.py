@@ -8,4 +8,5 @@ urlpatterns = [
     path("<int:pk>/", views.fit_run, name="run"),
     path("<int:pk>/save/", views.save_fit, name="save"),
     path("substitution/", views.substitution_page, name="substitution"),
+    path("geometry/", views.geometry_page, name="geometry"),
 ]

@@ -12,6 +12,7 @@ from planner.catalogue.store import EditConflict, Stamp, StoreError, update_spec
 from planner.engine.fitting import fit_constants
 
 from .forms import FitForm
+from .geometry import BUILDERS, r0_structure
 from .models import FitRun
 from .report import fit_document, fitted_species_of
 from .substitution import substitution_coordinates
@@ -84,3 +85,26 @@ def substitution_page(request):
         except ValueError as error:
             context["error"] = str(error)
     return render(request, "fitting/substitution.html", context)
+
+
+@needs(VIEW)
+def geometry_page(request):
+    """r0 fit of a triatomic's internal coordinates to the moments of chosen catalogue isotopologues."""
+    rows = list(SpeciesRow.objects.order_by("name"))
+    chosen_pks = request.GET.getlist("species")
+    chosen = [row for row in rows if str(row.pk) in chosen_pks]
+    kind = request.GET.get("geometry", "linear-triatomic")
+    context = {
+        "rows": rows,
+        "chosen": chosen,
+        "kind": kind,
+        "builders": BUILDERS,
+        "start": request.GET.get("start", ""),
+    }
+    if chosen:
+        try:
+            initial = [float(x) for x in request.GET.get("start", "").replace(",", " ").split()]
+            context["structure"] = r0_structure(kind, [species_of_row(row) for row in chosen], initial)
+        except ValueError as error:
+            context["error"] = str(error)
+    return render(request, "fitting/geometry.html", context)
