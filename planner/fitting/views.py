@@ -2,13 +2,17 @@
 
 from __future__ import annotations
 
+import io
+
 from django.contrib import messages
+from django.http import HttpResponse
 from django.shortcuts import get_object_or_404, redirect, render
 
 from planner.catalogue.access import CHANGE, VIEW, can_edit, needs
 from planner.catalogue.conversion import species_of_row
 from planner.catalogue.models import Species as SpeciesRow
 from planner.catalogue.store import EditConflict, Stamp, StoreError, update_species
+from planner.catalogue_file import dump_catalogue
 from planner.engine.fitting import fit_constants
 
 from .forms import FitForm
@@ -108,3 +112,15 @@ def geometry_page(request):
         except ValueError as error:
             context["error"] = str(error)
     return render(request, "fitting/geometry.html", context)
+
+
+@needs(VIEW)
+def fitted_catalogue(request, pk: int):
+    """The species with the run's fitted constants, σ and covariance, as a catalogue JSON file."""
+    run = get_object_or_404(FitRun, pk=pk)
+    row = get_object_or_404(SpeciesRow, pk=run.species_id)
+    buffer = io.StringIO()
+    dump_catalogue([fitted_species_of(run, species_of_row(row))], buffer)
+    response = HttpResponse(buffer.getvalue(), content_type="application/json; charset=utf-8")
+    response["Content-Disposition"] = f'attachment; filename="linecast-fit-{run.pk}-{row.pk}.json"'
+    return response

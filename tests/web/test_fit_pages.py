@@ -88,3 +88,15 @@ def test_viewer_may_fit_but_not_save(viewer_client):
     _fit(viewer_client)
     run = FitRun.objects.get()
     assert viewer_client.post(reverse("fitting:save", args=[run.pk])).status_code == 403
+
+
+def test_the_fitted_species_downloads_as_catalogue_json(editor_client):
+    import json
+
+    _fit(editor_client)
+    run = FitRun.objects.get()
+    response = editor_client.get(reverse("fitting:catalogue_json", args=[run.pk]))
+    assert response["Content-Disposition"].startswith(f'attachment; filename="linecast-fit-{run.pk}-')
+    (entry,) = json.loads(response.content)["species"]
+    assert entry["name"] == "CO"
+    assert entry["states"][0]["covariance_mhz2"]["names"] == ["B", "D"]
