@@ -17,7 +17,7 @@ def structure(result, species) -> list[tuple[str, str]]:
         masses = atom_masses(species.formula)
         if len(masses) == 2:
             r0, sigma = bond_length_a(result.value("B"), *masses, sigma_b_mhz=result.sigma("B"))
-            rows.append(("r0 from B0 [Å]", f"{r0:.7f} ± {sigma:.2g}"))
+            rows.append(("r0 from B0 [Å]", f"{r0:.6f} ± {sigma:.1g} (σ from σ(B) only; r0 is not re)"))
     fitted = result.fitted_species()
     state = next(s for s in fitted.states if s.label == result.state)
     if species.rotor == "asymmetric":
