@@ -47,6 +47,11 @@ def test_linear_molecule_has_no_kappa(viewer_client):
     assert derived == ["Ib = h/(8π²B)"]
 
 
+def test_a_diatomic_shows_its_bond_length(viewer_client):
+    derived = {name: value for name, value, _ in _page(viewer_client, "CO").context["states"][0]["derived"]}
+    assert derived["r from B of v=0 (r0 for the ground state)"] == pytest.approx(1.1309, abs=2e-4)  # from memory
+
+
 def test_partition_function_at_the_typed_temperatures(viewer_client, demo_species):
     response = _page(viewer_client, "H2CO", temperatures_k="9.4, 150 300")
     rows = response.context["partition_rows"]

@@ -100,3 +100,11 @@ def test_the_fitted_species_downloads_as_catalogue_json(editor_client):
     (entry,) = json.loads(response.content)["species"]
     assert entry["name"] == "CO"
     assert entry["states"][0]["covariance_mhz2"]["names"] == ["B", "D"]
+
+
+def test_a_diatomic_with_a_v1_state_also_gets_be_and_re(editor_client):
+    _fit(editor_client)  # demo CO has v=0 and v=1 (from memory)
+    structure = dict(FitRun.objects.get().result["structure"])
+    re = float(structure["re from Be [Å]"].split("±")[0])
+    assert re == pytest.approx(1.1283, abs=3e-4)  # re(CO) ≈ 1.1283 Å, from memory
+    assert float(structure["r0 from B0 [Å]"].split("±")[0]) > re  # vibration lengthens the average bond
