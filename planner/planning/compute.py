@@ -100,21 +100,33 @@ def compute_plan(inputs: dict) -> dict:
 
 def _compute_plan(inputs: dict) -> dict:
     rows = {row.name: row for row in with_constants(SpeciesRow.objects.all())}
-    unknown = [s["name"] for s in inputs["species"] if s["name"] not in rows]
+    engine_species = {name: species_of_row(row) for name, row in rows.items()}
+    document = build_plan(
+        inputs, engine_species, lambda species, window: cached_prediction(rows[species.name], species, window)
+    )
+    versions = {name: [rows[name].pk, rows[name].version] for name in sorted(rows)}
+    return {"inputs": inputs, **document, "catalogue_versions": versions}
+
+
+def build_plan(inputs: dict, catalogue: dict, predict_function=predict) -> dict:
+    """``{"result", "temperature_curve", "hazards", "computed_at"}`` of ``inputs`` over ``catalogue``.
+
+    ``catalogue`` maps name -> engine Species: the chosen species are planned,
+    every one of them is a blend check.  ``predict_function(species, request)``
+    stands in for the engine's predict (the pages pass a caching one).
+    """
+    unknown = [s["name"] for s in inputs["species"] if s["name"] not in catalogue]
     if unknown:
         raise PlanInputError(f"the catalogue has no species {', '.join(repr(n) for n in unknown)}")
-    engine_species = {name: species_of_row(row) for name, row in rows.items()}
     request = PlanRequest(**{key: inputs[key] for key in REQUEST_KEYS})
     model = model_from_inputs(inputs["model"])
     window = PredictionRequest(
         request.fmin_mhz, request.fmax_mhz, request.temperature_k, min_intensity_nm2mhz=request.min_intensity_nm2mhz
     )
-    # Every catalogue species' lines in the window: the chosen ones are planned, all of them are blend checks.
     predictions, blend_tables, messages = {}, [], []
-    for name, row in rows.items():
-        species = engine_species[name]
+    for name, species in catalogue.items():
         try:
-            predictions[name] = cached_prediction(row, species, window)
+            predictions[name] = predict_function(species, window)
         except ValueError as error:  # EngineLimitError: this species cannot be predicted at this temperature
             messages.append(f"{name} is left out of the blend check: {error}")
             continue
@@ -122,7 +134,7 @@ def _compute_plan(inputs: dict) -> dict:
         if len(lines):
             intensity = lines["intensity_nm2mhz"]
             blend_tables.append(lines.take(np.nonzero(intensity >= BLEND_RELATIVE_FLOOR * intensity.max())[0]))
-    chosen = [PlanSpecies(engine_species[s["name"]], s["amount"]) for s in inputs["species"]]
+    chosen = [PlanSpecies(catalogue[s["name"]], s["amount"]) for s in inputs["species"]]
     missing = [p.species.name for p in chosen if p.species.name not in predictions]
     if missing:
         raise PlanInputError(f"cannot predict {', '.join(missing)} at {request.temperature_k:g} K")
@@ -131,10 +143,8 @@ def _compute_plan(inputs: dict) -> dict:
     ).to_dict()
     result.setdefault("messages", []).extend(messages)
     return {
-        "inputs": inputs,
         "result": result,
-        "temperature_curve": _temperature_curve(request, model, chosen, result, rows),
-        "catalogue_versions": {name: [rows[name].pk, rows[name].version] for name in sorted(rows)},
+        "temperature_curve": _temperature_curve(request, model, chosen, result, predict_function),
         "hazards": {p.species.name: p.species.hazards for p in chosen},
         "computed_at": timezone.now().isoformat(timespec="seconds"),
     }
@@ -143,9 +153,9 @@ def _compute_plan(inputs: dict) -> dict:
 _KEY_FIELDS = ("species", "state", "j_up", "ka_up", "kc_up", "j_lo", "ka_lo", "kc_lo")
 
 
-def _temperature_curve(request, model, chosen, result, rows) -> dict:
+def _temperature_curve(request, model, chosen, result, predict_function) -> dict:
     """Expected signal of the strongest targets at CURVE_TEMPERATURES_K, for the plot."""
-    top = [t for t in result["targets"]][:CURVE_TARGETS]
+    top = result["targets"][:CURVE_TARGETS]
     if not top:
         return {"temperatures_k": list(CURVE_TEMPERATURES_K), "lines": []}
     keys = [tuple(t[f] for f in _KEY_FIELDS) for t in top]
@@ -156,7 +166,7 @@ def _temperature_curve(request, model, chosen, result, rows) -> dict:
             chosen,
             keys,
             list(CURVE_TEMPERATURES_K),
-            predict_function=lambda species, window: cached_prediction(rows[species.name], species, window),
+            predict_function=predict_function,
         )
     except ValueError as error:
         return {"temperatures_k": list(CURVE_TEMPERATURES_K), "lines": [], "message": str(error)}

@@ -18,11 +18,9 @@ from django.core.management.base import BaseCommand, CommandError
 
 from planner.catalogue.store import export_species
 from planner.catalogue_file import CatalogueError, load_catalogue
-from planner.engine import LineTable, PredictionRequest, predict
-from planner.engine.plan import PlanRequest, PlanSpecies, make_plan
-from planner.planning.compute import default_model_inputs, model_from_inputs
+from planner.planning.compute import build_plan, default_model_inputs
 from planner.planning.exports import plan_json, targets_csv
-from planner.planning.forms import DEFAULT_SETTINGS
+from planner.planning.forms import DEFAULT_SETTINGS, instrument_inputs
 from planner.planning.models import Instrument
 from planner.spectra.management.commands.predict import write_atomically
 
@@ -44,7 +42,7 @@ class Command(BaseCommand):
         parser.add_argument("--output", type=Path, default=None, metavar="PATH", help="file to write (default stdout)")
 
     def handle(self, *args, **options):
-        species = self._species(options["catalogue"], options["species"])
+        available, species = self._species(options["catalogue"], options["species"])
         settings, model_inputs = self._instrument(options["instrument"])
         inputs = {
             "instrument": options["instrument"],
@@ -62,24 +60,14 @@ class Command(BaseCommand):
             "species": [{"name": s.name, "amount": 1.0} for s in species],
         }
         try:
-            request = PlanRequest(**{k: inputs[k] for k in PlanRequest.__dataclass_fields__})
-            window = PredictionRequest(request.fmin_mhz, request.fmax_mhz, request.temperature_k)
-            predictions = {s.name: predict(s, window) for s in species}
-            result = make_plan(
-                request,
-                model_from_inputs(model_inputs),
-                [PlanSpecies(s, 1.0) for s in species],
-                blend_lines=LineTable.concatenate([p.lines for p in predictions.values() if len(p.lines)]),
-                predictions=predictions,
-            ).to_dict()
+            document = {
+                "inputs": inputs,
+                **build_plan(inputs, {s.name: s for s in available}),
+                "catalogue_versions": {},
+            }
         except ValueError as error:
             raise CommandError(f"cannot plan: {error}") from error
-        document = {
-            "inputs": inputs,
-            "result": result,
-            "hazards": {s.name: s.hazards for s in species},
-            "catalogue_versions": {},
-        }
+        result = document["result"]
         if options["format"] == "csv":
             buffer = io.StringIO()
             targets_csv(document, buffer)
@@ -104,17 +92,15 @@ class Command(BaseCommand):
             raise CommandError(f"catalogue {catalogue} has problems:\n{error}") from error
         by_name = {s.name: s for s in available}
         if not names:
-            return [s for s in available if s.has_dipole]
+            return available, [s for s in available if s.has_dipole]
         unknown = [n for n in names if n not in by_name]
         if unknown:
             raise CommandError(f"unknown species {', '.join(map(repr, unknown))}; known: {', '.join(sorted(by_name))}")
-        return [by_name[n] for n in dict.fromkeys(names)]
+        return available, [by_name[n] for n in dict.fromkeys(names)]
 
     def _instrument(self, name):
         if name is None:
             return dict(DEFAULT_SETTINGS), default_model_inputs()
-        from planner.planning.forms import instrument_inputs
-
         instrument = Instrument.objects.filter(name=name).first()
         if instrument is None:
             raise CommandError(f"no instrument profile {name!r}")
