@@ -10,5 +10,6 @@ class CatalogueConfig(AppConfig):
     def ready(self):
         from planner.catalogue.roles import ensure_roles
 
-        # After auth has created the permissions (its post_migrate handler is connected first).
-        post_migrate.connect(ensure_roles, sender=self)
+        # After every app's migrate signal, not only ours: the roles also hold the planning app's
+        # permissions, which auth creates when that app's signal is sent (after ours).
+        post_migrate.connect(ensure_roles, dispatch_uid="linecast-ensure-roles")

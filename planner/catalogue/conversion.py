@@ -16,7 +16,7 @@ from .models import State as StateRow
 
 
 def engine_species(row, states) -> Species:
-    """Species from a species row and ``states`` = [(state row, [constant rows]), ...] in order.
+    """Species from a species row and ``states`` = [(state row, [constant rows], [covariance rows]), ...].
 
     Works with historical rows too: they carry the same field names.
     """
@@ -32,7 +32,7 @@ def engine_species(row, states) -> Species:
         mass_amu=row.mass_amu,
         dipole_debye=(row.dipole_a_debye, row.dipole_b_debye, row.dipole_c_debye),
         spin_weights=weights,
-        states=tuple(_state(state, constants, covariance) for state, constants, *covariance in states),
+        states=tuple(_state(state, constants, covariance) for state, constants, covariance in states),
         source=row.source,
         notes=row.notes,
         hazards=row.hazards,
@@ -40,7 +40,7 @@ def engine_species(row, states) -> Species:
 
 
 def _state(row, constants, covariance) -> State:
-    names, matrix = covariance_matrix(covariance[0] if covariance else [])
+    names, matrix = covariance_matrix(covariance)
     return State(row.label, row.energy_cm1, {c.name: (c.value_mhz, c.sigma_mhz) for c in constants}, names, matrix)
 
 

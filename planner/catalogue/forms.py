@@ -11,7 +11,6 @@ from __future__ import annotations
 import re
 
 from django import forms
-from django.core.exceptions import NON_FIELD_ERRORS
 
 from planner.catalogue_file.species_entry import parse_species
 from planner.engine import Species, allowed_parameters
@@ -273,4 +272,4 @@ def _place(path: str, message: str, form, kept, states, entry) -> None:
         form.add_error(None if path not in form.fields else path, f"{path}: {message}")
 
 
-__all__ = ["NON_FIELD_ERRORS", "SpeciesForm", "StateFormSet", "initial_data", "validated_species"]
+__all__ = ["SpeciesForm", "StateFormSet", "initial_data", "validated_species"]

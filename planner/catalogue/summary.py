@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import math
 
-from planner.catalogue_file.masses import atom_masses
+from planner.catalogue_file.masses import diatomic_masses
 from planner.engine import Species
 from planner.engine.constants import MHZ_PER_CM1
 from planner.engine.derived import inertial_defect_amu_a2, moment_of_inertia_amu_a2, ray_kappa
@@ -99,7 +99,7 @@ def state_derived(species: Species, state) -> list[tuple[str, float, str]]:
     """(quantity, value, unit) derived from one state's rotational constants."""
     values = {name: state.constants_mhz[name][0] for name in "ABC" if name in state.constants_mhz}
     derived = []
-    masses = _diatomic_masses(species)
+    masses = diatomic_masses(species.formula) if species.rotor == "linear" else None
     if masses and "B" in values:
         r, _ = bond_length_a(values["B"], *masses)
         derived.append((f"r from B of {state.label} (r0 for the ground state)", r, "Å"))
@@ -113,14 +113,3 @@ def state_derived(species: Species, state) -> list[tuple[str, float, str]]:
             derived.append(("Ray's asymmetry κ = (2B − A − C)/(A − C)", kappa, ""))
         derived.append(("Inertial defect Δ = Ic − Ia − Ib", inertial_defect_amu_a2(a, b, c), "u Å²"))
     return derived
-
-
-def _diatomic_masses(species: Species) -> list[float] | None:
-    """The two atom masses [u] of a diatomic (most abundant isotopes unless the formula marks one)."""
-    if species.rotor != "linear":
-        return None
-    try:
-        masses = atom_masses(species.formula)
-    except ValueError:
-        return None
-    return masses if len(masses) == 2 else None

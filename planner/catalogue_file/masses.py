@@ -57,3 +57,12 @@ def atom_masses(formula: str) -> list[float]:
             atom = max((atom[n] for n in atom.isotopes), key=lambda iso: iso.abundance)
         masses.extend([float(atom.mass)] * int(count))
     return masses
+
+
+def diatomic_masses(formula: str) -> list[float] | None:
+    """The two atom masses [u] of a diatomic formula (see :func:`atom_masses`); None for any other formula."""
+    try:
+        masses = atom_masses(formula)
+    except ValueError:
+        return None
+    return masses if len(masses) == 2 else None

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import dataclasses
 
-from planner.catalogue_file.masses import atom_masses
+from planner.catalogue_file.masses import diatomic_masses
 from planner.engine import State
 from planner.engine.derived import inertial_defect_amu_a2, moments_of_inertia_amu_a2
 from planner.engine.structure import bond_length_a, equilibrium_b_mhz
@@ -13,12 +13,11 @@ from planner.engine.structure import bond_length_a, equilibrium_b_mhz
 def structure(result, species) -> list[tuple[str, str]]:
     """(quantity, value text) derived from the fitted constants: r0 of a diatomic, moments, Δ."""
     rows = []
-    if species.rotor == "linear" and "B" in result.names:
-        masses = atom_masses(species.formula)
-        if len(masses) == 2:
-            r0, sigma = bond_length_a(result.value("B"), *masses, sigma_b_mhz=result.sigma("B"))
-            rows.append(("r0 from B0 [Å]", f"{r0:.6f} ± {sigma:.1g} (σ from σ(B) only; r0 is not re)"))
-            rows += equilibrium_rows(species, masses, result.value("B"), result.sigma("B"))
+    masses = diatomic_masses(species.formula) if species.rotor == "linear" else None
+    if masses and "B" in result.names:
+        r0, sigma = bond_length_a(result.value("B"), *masses, sigma_b_mhz=result.sigma("B"))
+        rows.append(("r0 from B0 [Å]", f"{r0:.6f} ± {sigma:.1g} (σ from σ(B) only; r0 is not re)"))
+        rows += equilibrium_rows(species, masses, result.value("B"), result.sigma("B"))
     fitted = result.fitted_species()
     state = next(s for s in fitted.states if s.label == result.state)
     if species.rotor == "asymmetric":

@@ -24,7 +24,10 @@ from .substitution import substitution_coordinates
 
 @needs(VIEW)
 def fit_page(request):
-    form = FitForm(request.POST or None, request.FILES or None, initial={"species": request.GET.get("species")})
+    if request.method == "POST":
+        form = FitForm(request.POST, request.FILES)
+    else:
+        form = FitForm(initial={"species": request.GET.get("species")})
     if request.method == "POST" and form.is_valid():
         row = form.cleaned_data["species"]
         species = species_of_row(row)

@@ -37,3 +37,14 @@ def test_staff_open_the_admin_and_members_do_not(client, make_member, demo_in_db
     assert "Admin" in client.get(reverse("catalogue:list")).content.decode()
     client.force_login(make_member("mo", "editor"))
     assert client.get(reverse("admin:catalogue_species_changelist")).status_code == 302
+
+
+def test_migrate_alone_gives_the_roles_every_permission(db):
+    # No give_role call: the groups must be complete straight after the test database's migrate.
+    from django.contrib.auth.models import Group
+
+    from planner.catalogue.roles import EDITORS, ROLE_PERMISSIONS
+
+    editors = Group.objects.get(name=EDITORS)
+    granted = {(p.content_type.app_label, p.codename) for p in editors.permissions.select_related("content_type")}
+    assert granted == set(ROLE_PERMISSIONS[EDITORS])

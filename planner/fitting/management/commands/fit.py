@@ -18,10 +18,9 @@ from pathlib import Path
 from django.core.management.base import BaseCommand, CommandError
 
 from planner.catalogue_file import CatalogueError, dump_catalogue, load_catalogue
-from planner.catalogue_file.masses import atom_masses
 from planner.engine.fitting import fit_constants
-from planner.engine.structure import bond_length_a
 from planner.fitting.lines_file import LinesFileError, read_lines
+from planner.fitting.report import structure
 
 
 class Command(BaseCommand):
@@ -95,11 +94,9 @@ def report(result, species) -> str:
         f"weighted RMS {result.weighted_rms:.4g}, reduced χ² {result.reduced_chi2:.4g} "
         f"({result.degrees_of_freedom} degrees of freedom), condition number {result.condition_number:.3g}"
     )
-    if species.rotor == "linear" and "B" in result.names:
-        masses = atom_masses(species.formula)
-        if len(masses) == 2:
-            r0, sigma = bond_length_a(result.value("B"), *masses, sigma_b_mhz=result.sigma("B"))
-            out.append(f"bond length r0 = {r0:.7f} ± {sigma:.2g} Å (from B0, atom masses of {species.formula})")
+    for name, value in structure(result, species):  # the same rows as the fit page
+        shown = "bond length r0" if name.startswith("r0 ") else name
+        out.append(f"{shown} = {value}")
     return "\n".join(out) + "\n"
 
 
