@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from django.db.models import Prefetch
 
-from planner.engine import Species, SpinWeights, State
+from planner.engine import Atom, Quadrupole, Species, SpinWeights, State
 
 from .models import Constant
 from .models import Species as SpeciesRow
@@ -36,12 +36,33 @@ def engine_species(row, states) -> Species:
         source=row.source,
         notes=row.notes,
         hazards=row.hazards,
+        parent=row.parent_name,
+        natural_abundance=row.natural_abundance,
+        constants_route=row.constants_route,
+        route_note=row.route_note,
+        hyperfine=_quadrupole(row.hyperfine),
+        geometry=tuple(Atom(a["element"], a.get("isotope"), tuple(a["xyz_a"])) for a in row.geometry or ()),
     )
+
+
+def _quadrupole(data) -> Quadrupole | None:
+    if not data:
+        return None
+    return Quadrupole(data["nucleus"], data["spin"], {k: tuple(v) for k, v in data["chi_mhz"].items()})
 
 
 def _state(row, constants, covariance) -> State:
     names, matrix = covariance_matrix(covariance)
-    return State(row.label, row.energy_cm1, {c.name: (c.value_mhz, c.sigma_mhz) for c in constants}, names, matrix)
+    values = {c.name: (c.value_mhz, c.sigma_mhz) for c in constants if c.kind != "alpha"}
+    alpha = {c.name: (c.value_mhz, c.sigma_mhz) for c in constants if c.kind == "alpha"}
+    return State(row.label, row.energy_cm1, values, names, matrix, row.degeneracy, alpha)
+
+
+def stored_constants(state: State) -> dict[str, tuple[float, float, str]]:
+    """name -> (value or α, σ, kind) [MHz] of the constant rows a state is stored as."""
+    rows = {name: (value, sigma, "value") for name, (value, sigma) in state.stored_constants_mhz.items()}
+    rows.update({name: (value, sigma, "alpha") for name, (value, sigma) in state.alpha_mhz.items()})
+    return rows
 
 
 def covariance_matrix(elements) -> tuple[tuple[str, ...], tuple[tuple[float, ...], ...]]:
@@ -99,4 +120,30 @@ def row_fields(species: Species) -> dict:
         "source": species.source,
         "notes": species.notes,
         "hazards": species.hazards,
+        "parent_name": species.parent,
+        "natural_abundance": species.natural_abundance,
+        "constants_route": species.constants_route,
+        "route_note": species.route_note,
+        "hyperfine": hyperfine_data(species),
+        "geometry": geometry_data(species),
     }
+
+
+def hyperfine_data(species: Species) -> dict | None:
+    """The species' quadrupole nucleus in the catalogue file's form, None for none."""
+    quad = species.hyperfine
+    if quad is None:
+        return None
+    return {"nucleus": quad.nucleus, "spin": quad.spin, "chi_mhz": {k: list(v) for k, v in quad.chi_mhz.items()}}
+
+
+def geometry_data(species: Species) -> list[dict]:
+    """The stored geometry in the catalogue file's form ([] for none)."""
+    atoms = []
+    for atom in species.geometry:
+        entry = {"element": atom.element}
+        if atom.mass_number is not None:
+            entry["isotope"] = atom.mass_number
+        entry["xyz_a"] = list(atom.xyz_a)
+        atoms.append(entry)
+    return atoms

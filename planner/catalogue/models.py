@@ -13,7 +13,7 @@ from django.db import models
 from django.db.models import Q
 from simple_history.models import HistoricalRecords
 
-from planner.engine.species import MAX_DIPOLE_DEBYE, REDUCTIONS, REPRESENTATIONS, ROTOR_KINDS
+from planner.engine.species import CONSTANTS_ROUTES, MAX_DIPOLE_DEBYE, REDUCTIONS, REPRESENTATIONS, ROTOR_KINDS
 
 NAME_LENGTH = 100
 FORMULA_LENGTH = 100
@@ -23,6 +23,12 @@ PARAMETER_LENGTH = 20
 ROTOR_CHOICES = [(kind, kind.replace("-", " ")) for kind in ROTOR_KINDS]
 REDUCTION_CHOICES = [(r, f"{r}-reduction") for r in REDUCTIONS]
 REPRESENTATION_CHOICES = [(r, r) for r in REPRESENTATIONS]
+# entered: measured or typed in; mass-scaling: a diatomic scaled from its parent by the reduced
+# mass; geometry-ratio: scaled from the parent through the stored geometry.
+ROUTE_CHOICES = [("entered", "entered"), ("mass-scaling", "mass scaling"), ("geometry-ratio", "geometry ratio")]
+assert [c for c, _ in ROUTE_CHOICES] == list(CONSTANTS_ROUTES)
+# alpha: the row holds α = ground-state value − this state's value.
+CONSTANT_KIND_CHOICES = [("value", "value"), ("alpha", "alpha")]
 SPIN_AXIS_CHOICES = [
     ("", "none (every level weight 1)"),
     ("a", "C2 axis along a"),
@@ -49,6 +55,16 @@ class Species(models.Model):
     source = models.TextField(blank=True, default="")
     notes = models.TextField(blank=True, default="")
     hazards = models.TextField(blank=True, default="")
+    # Isotopologues: the species it was derived from, its share in a sample of natural composition,
+    # and how its constants were obtained.
+    parent_name = models.CharField(max_length=NAME_LENGTH, blank=True, default="")
+    natural_abundance = models.FloatField(null=True, blank=True)
+    constants_route = models.CharField(max_length=20, choices=ROUTE_CHOICES, default="entered")
+    route_note = models.TextField(blank=True, default="")
+    # One quadrupolar nucleus and a stored geometry, in the catalogue file's own form
+    # ({"nucleus", "spin", "chi_mhz"} and [{"element", "isotope", "xyz_a"}, ...]); the engine checks them.
+    hyperfine = models.JSONField(null=True, blank=True)
+    geometry = models.JSONField(default=list, blank=True)
     # Raised by every save; an edit started from an older version is refused (store.py).
     version = models.PositiveIntegerField(default=1)
     updated_at = models.DateTimeField(auto_now=True)
@@ -60,6 +76,10 @@ class Species(models.Model):
         verbose_name_plural = "species"
         constraints = [
             models.CheckConstraint(condition=Q(mass_amu__gt=0), name="species_mass_positive"),
+            models.CheckConstraint(
+                condition=Q(natural_abundance__isnull=True) | Q(natural_abundance__gt=0, natural_abundance__lte=1),
+                name="species_abundance_fraction",
+            ),
             *(
                 models.CheckConstraint(
                     condition=Q(**{f"dipole_{axis}_debye__gte": -MAX_DIPOLE_DEBYE})
@@ -88,6 +108,7 @@ class State(models.Model):
     position = models.PositiveSmallIntegerField(default=0)  # order within the species, ground state first
     label = models.CharField(max_length=LABEL_LENGTH)
     energy_cm1 = models.FloatField(default=0.0)
+    degeneracy = models.PositiveSmallIntegerField(default=1)  # vibrational degeneracy g_v
 
     history = HistoricalRecords()
 
@@ -96,6 +117,7 @@ class State(models.Model):
         constraints = [
             models.UniqueConstraint(fields=["species", "label"], name="state_label_unique_per_species"),
             models.CheckConstraint(condition=Q(energy_cm1__gte=0), name="state_energy_not_negative"),
+            models.CheckConstraint(condition=Q(degeneracy__gte=1), name="state_degeneracy_positive"),
         ]
 
     def __str__(self) -> str:
@@ -107,6 +129,8 @@ class Constant(models.Model):
     name = models.CharField(max_length=PARAMETER_LENGTH)
     value_mhz = models.FloatField()
     sigma_mhz = models.FloatField(default=0.0)
+    # "alpha": the row holds α, and the state's value is the ground state's minus α.
+    kind = models.CharField(max_length=5, choices=CONSTANT_KIND_CHOICES, default="value")
 
     history = HistoricalRecords()
 

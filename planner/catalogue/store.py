@@ -20,7 +20,7 @@ from planner.catalogue_file import CatalogueError, Problem
 from planner.engine import Species
 
 from .changes import Change, differences
-from .conversion import covariance_elements, row_fields, species_of_row, with_constants
+from .conversion import covariance_elements, row_fields, species_of_row, stored_constants, with_constants
 from .models import FORMULA_LENGTH, LABEL_LENGTH, NAME_LENGTH, PARAMETER_LENGTH, Constant, CovarianceElement
 from .models import Species as SpeciesRow
 from .models import State as StateRow
@@ -73,6 +73,7 @@ def length_problems(species: Species) -> list[Problem]:
     for index, state in enumerate(species.states):
         checks.append((f"states[{index}].label", state.label, LABEL_LENGTH))
         checks.extend((f"states[{index}].constants_mhz.{name}", name, PARAMETER_LENGTH) for name in state.constants_mhz)
+    checks.append(("parent", species.parent, NAME_LENGTH))
     for path, text, limit in checks:
         if len(text) > limit:
             problems.append(Problem(species.name, path, f"is {len(text)} characters long; at most {limit} fit"))
@@ -83,14 +84,15 @@ def _write_states(row: SpeciesRow, species: Species, stamp: Stamp) -> None:
     existing = {state.label: state for state in row.states.all()}
     for position, state in enumerate(species.states):
         state_row = existing.pop(state.label, None) or StateRow(species=row, label=state.label)
-        if state_row.pk is None or (state_row.position, state_row.energy_cm1) != (position, state.energy_cm1):
-            state_row.position, state_row.energy_cm1 = position, state.energy_cm1
+        wanted = (position, state.energy_cm1, state.degeneracy)
+        if state_row.pk is None or (state_row.position, state_row.energy_cm1, state_row.degeneracy) != wanted:
+            state_row.position, state_row.energy_cm1, state_row.degeneracy = wanted
             stamp.on(state_row).save()
         constants = {c.name: c for c in state_row.constants.all()}
-        for name, (value, sigma) in state.constants_mhz.items():
+        for name, (value, sigma, kind) in stored_constants(state).items():
             constant = constants.pop(name, None) or Constant(state=state_row, name=name, value_mhz=value)
-            if constant.pk is None or (constant.value_mhz, constant.sigma_mhz) != (value, sigma):
-                constant.value_mhz, constant.sigma_mhz = value, sigma
+            if constant.pk is None or (constant.value_mhz, constant.sigma_mhz, constant.kind) != (value, sigma, kind):
+                constant.value_mhz, constant.sigma_mhz, constant.kind = value, sigma, kind
                 stamp.on(constant).save()
         for constant in constants.values():
             stamp.on(constant).delete()

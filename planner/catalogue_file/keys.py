@@ -20,10 +20,18 @@ SPECIES_KEYS = (
     "source",
     "notes",
     "hazards",
+    "parent",
+    "natural_abundance",
+    "constants_route",
+    "route_note",
+    "hyperfine",
+    "geometry",
 )
 REQUIRED_SPECIES_KEYS = ("name", "formula", "rotor", "dipole_debye", "states")
-STATE_KEYS = ("label", "energy_cm1", "constants_mhz", "covariance_mhz2")
-REQUIRED_STATE_KEYS = ("label", "energy_cm1", "constants_mhz")
+STATE_KEYS = ("label", "energy_cm1", "degeneracy", "constants_mhz", "alpha_mhz", "covariance_mhz2")
+REQUIRED_STATE_KEYS = ("label", "energy_cm1")
+HYPERFINE_KEYS = ("nucleus", "spin", "chi_mhz")
+ATOM_KEYS = ("element", "isotope", "xyz_a")
 COVARIANCE_KEYS = ("names", "matrix")
 DIPOLE_AXES = ("a", "b", "c")
 

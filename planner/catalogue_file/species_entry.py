@@ -11,12 +11,28 @@ from __future__ import annotations
 
 import difflib
 import json
+import re
 
-from planner.engine.species import REDUCTIONS, REPRESENTATIONS, ROTOR_KINDS, Species, SpeciesError, SpinWeights, State
+import periodictable
+
+from planner.engine.species import (
+    CONSTANTS_ROUTES,
+    REDUCTIONS,
+    REPRESENTATIONS,
+    ROTOR_KINDS,
+    Atom,
+    Quadrupole,
+    Species,
+    SpeciesError,
+    SpinWeights,
+    State,
+)
 
 from .keys import (
+    ATOM_KEYS,
     COVARIANCE_KEYS,
     DIPOLE_AXES,
+    HYPERFINE_KEYS,
     REQUIRED_SPECIES_KEYS,
     REQUIRED_STATE_KEYS,
     SPECIES_KEYS,
@@ -36,7 +52,14 @@ _NEUTRAL = {
     "spin_weights": None,
     "reduction": "A",
     "representation": "Ir",
+    "natural_abundance": None,
+    "constants_route": "entered",
+    "parent": "",
+    "hyperfine": None,
+    "geometry": (),
 }
+#: Fields for which None is a real value ("not given"), not the mark of an unreadable one.
+_NONE_ALLOWED = ("spin_weights", "natural_abundance", "hyperfine")
 
 
 class Report:
@@ -98,8 +121,13 @@ def parse_species(entry, label: str) -> tuple[Species | None, list[Problem]]:
         if key not in entry:
             report.add(key, "is required")
     formula = _text(report, entry, "formula", None)
-    texts = {key: _text(report, entry, key, "") for key in ("source", "notes", "hazards")}
+    texts = {key: _text(report, entry, key, "") for key in ("source", "notes", "hazards", "route_note")}
     fields = {
+        "parent": _text(report, entry, "parent", ""),
+        "natural_abundance": _optional_number(report, entry, "natural_abundance", "a fraction in (0, 1]"),
+        "constants_route": _choice(report, entry, "constants_route", CONSTANTS_ROUTES, "entered"),
+        "hyperfine": _hyperfine(report, entry["hyperfine"]) if "hyperfine" in entry else None,
+        "geometry": _geometry(report, entry["geometry"]) if "geometry" in entry else (),
         "name": _text(report, entry, "name", None),
         "rotor": _choice(report, entry, "rotor", ROTOR_KINDS, None),
         "reduction": _choice(report, entry, "reduction", REDUCTIONS, "A"),
@@ -113,9 +141,11 @@ def parse_species(entry, label: str) -> tuple[Species | None, list[Problem]]:
         _ask_engine_about_species(report, fields)
         # the reduction picks the parameter names of an asymmetric top only
         if fields["reduction"] is not None or fields["rotor"] != "asymmetric":
+            present = [state for state in states if state is not None]
+            ground = min(present, key=lambda s: s.energy_cm1) if present else None
             for index, state in enumerate(states):
                 if state is not None:
-                    _ask_engine_about_state(report, fields, state, f"states[{index}]")
+                    _ask_engine_about_state(report, fields, state, f"states[{index}]", ground)
     if report.problems:
         return None, report.problems
     try:
@@ -243,9 +273,78 @@ def _state(report, item, where: str) -> State | None:
     if not is_number(energy):
         report.add(f"{where}.energy_cm1", f"must be a number [cm^-1], got {json_type(energy)}")
         energy = 0.0
+    if "constants_mhz" not in item and "alpha_mhz" not in item:
+        report.add(f"{where}.constants_mhz", "is required (or alpha_mhz, differences from the ground state)")
     constants = _constants(report, item.get("constants_mhz", {}), f"{where}.constants_mhz")
+    alpha = _constants(report, item.get("alpha_mhz", {}), f"{where}.alpha_mhz")
     names, matrix = _covariance(report, item.get("covariance_mhz2"), f"{where}.covariance_mhz2")
-    return State(label, energy, constants, names, matrix)
+    degeneracy = item.get("degeneracy", 1)
+    if isinstance(degeneracy, bool) or not isinstance(degeneracy, int) or degeneracy < 1:
+        report.add(f"{where}.degeneracy", f"must be a whole number >= 1, got {json_type(degeneracy)}")
+        degeneracy = 1
+    return State(label, energy, constants, names, matrix, degeneracy, alpha)
+
+
+def _optional_number(report, entry: dict, key: str, meaning: str):
+    """A number or null (absent: None); the engine checks its range."""
+    value = entry.get(key)
+    if value is None or is_number(value):
+        return value
+    report.add(key, f"must be a number ({meaning}) or null, got {json_type(value)}")
+    return None
+
+
+def _hyperfine(report, value) -> Quadrupole | None:
+    """{"nucleus": "14N", "spin": 1, "chi_mhz": {"aa": [value, sigma], ...}} -> Quadrupole."""
+    if not isinstance(value, dict):
+        example = '{"nucleus": "14N", "spin": 1, "chi_mhz": {"aa": [-4.7, 0.01]}}'
+        report.add("hyperfine", f"must be an object such as {example}, got {json_type(value)}")
+        return None
+    check_keys(report, value, HYPERFINE_KEYS, "hyperfine.")
+    missing = [key for key in HYPERFINE_KEYS if key not in value]
+    for key in missing:
+        report.add(f"hyperfine.{key}", "is required")
+    nucleus, spin = value.get("nucleus"), value.get("spin")
+    if "nucleus" in value and not isinstance(nucleus, str):
+        report.add("hyperfine.nucleus", f"must be text such as '14N', got {json_type(nucleus)}")
+    if "spin" in value and not is_number(spin):
+        report.add("hyperfine.spin", f"must be a number (I, e.g. 1 or 1.5), got {json_type(spin)}")
+    chi = _constants(report, value.get("chi_mhz", {}), "hyperfine.chi_mhz")
+    if missing or not isinstance(nucleus, str) or not is_number(spin):
+        return None
+    return Quadrupole(nucleus, spin, chi)
+
+
+def _geometry(report, value) -> tuple[Atom, ...]:
+    """[{"element": "O", "isotope": 16, "xyz_a": [x, y, z]}, ...] -> atoms; elements and isotopes from periodictable."""
+    if not isinstance(value, list):
+        report.add("geometry", 'must be a list of atoms such as {"element": "C", "xyz_a": [0, 0, 1.16]}')
+        return ()
+    atoms = []
+    for index, item in enumerate(value):
+        where = f"geometry[{index}]"
+        if not isinstance(item, dict):
+            report.add(where, f"must be an object with element and xyz_a, got {json_type(item)}")
+            continue
+        check_keys(report, item, ATOM_KEYS, f"{where}.")
+        element, isotope, xyz = item.get("element"), item.get("isotope"), item.get("xyz_a")
+        known = isinstance(element, str) and hasattr(periodictable, element) and re.fullmatch(r"[A-Z][a-z]?", element)
+        if not known:
+            report.add(f"{where}.element", f"must be an element symbol such as 'C' or 'Cl', got {json_type(element)}")
+            continue
+        if isotope is not None:
+            if (
+                isinstance(isotope, bool)
+                or not isinstance(isotope, int)
+                or isotope not in getattr(periodictable, element).isotopes
+            ):
+                report.add(f"{where}.isotope", f"{json_type(isotope)} is not a known mass number of {element}")
+                continue
+        if not (isinstance(xyz, list) and len(xyz) == 3 and all(is_number(v) for v in xyz)):
+            report.add(f"{where}.xyz_a", "must be three numbers [Å]")
+            continue
+        atoms.append(Atom(element, isotope, tuple(xyz)))
+    return tuple(atoms) if len(atoms) == len(value) else ()
 
 
 def _covariance(report, value, where: str) -> tuple[tuple[str, ...], tuple]:
@@ -291,29 +390,45 @@ def _constants(report, value, where: str) -> dict[str, tuple[float, float]]:
 def _ask_engine_about_species(report, fields: dict) -> None:
     """Every species-level rule of the engine (mass, dipole, spin weights vs rotor, ...)."""
     # a field already found unreadable (None) is stood in for; None is a real value only for spin_weights
-    probe = {key: _NEUTRAL[key] if value is None and key != "spin_weights" else value for key, value in fields.items()}
+    probe = {
+        key: _NEUTRAL[key] if value is None and key not in _NONE_ALLOWED else value for key, value in fields.items()
+    }
     for _ in range(len(_NEUTRAL) + 1):
         try:
             Species(**probe, states=())
         except SpeciesError as error:
-            key = error.field.split(".")[0]
+            key = re.split(r"[.\[]", error.field)[0]
             if key not in _NEUTRAL:  # only "states" is left: every species-level field passed
                 return
             report.add(error.field, error.message)
             probe[key] = _NEUTRAL[key]
 
 
-def _ask_engine_about_state(report, fields: dict, state: State, where: str) -> None:
-    """Every rule of the engine about one state, with the species-level fields made harmless."""
+def _ask_engine_about_state(report, fields: dict, state: State, where: str, ground: State | None) -> None:
+    """Every rule of the engine about one state, with the species-level fields made harmless.
+
+    A state given by differences from the ground state is checked with the constants they give
+    (the ground state's, less α); a problem of such a constant is reported on its α.
+    """
     probe = dict(_NEUTRAL, rotor=fields["rotor"], reduction=fields["reduction"] or "A")
     label, energy, constants = state.label, state.energy_cm1, dict(state.constants_mhz)
+    if state.alpha_mhz and ground is not None and ground is not state:
+        merged = dict(ground.constants_mhz)
+        merged.update(constants)
+        for name, (alpha, _) in state.alpha_mhz.items():
+            if name in ground.constants_mhz and name not in constants:
+                merged[name] = (ground.value(name) - alpha, 0.0)
+        constants = merged
     for _ in range(len(constants) + 3):
         try:
-            Species(**probe, states=(State(label, energy, constants),))
+            Species(**probe, states=(State(label, energy, constants, degeneracy=state.degeneracy),))
             return
         except SpeciesError as error:
-            report.add(where + error.field.removeprefix("states[0]"), error.message)
-            part, _, name = error.field.removeprefix("states[0].").partition(".")
+            field = error.field
+            part, _, name = field.removeprefix("states[0].").partition(".")
+            if part == "constants_mhz" and name in state.alpha_mhz:
+                field = f"states[0].alpha_mhz.{name}"
+            report.add(where + field.removeprefix("states[0]"), error.message)
             if part == "constants_mhz" and name in constants:
                 del constants[name]
             elif part == "label":

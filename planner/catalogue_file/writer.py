@@ -6,7 +6,7 @@ import json
 import os
 import re
 
-from planner.engine.species import Species, allowed_parameters
+from planner.engine.species import QUADRUPOLE_COMPONENTS, Species, allowed_parameters
 
 from .keys import DIPOLE_AXES, FORMAT_NAME, FORMAT_VERSION, SPIN_WEIGHT_KEYS
 from .reader import parse_catalogue
@@ -65,15 +65,42 @@ def _species_entry(species: Species) -> dict:
     entry["source"] = species.source
     entry["notes"] = species.notes
     entry["hazards"] = species.hazards
+    if species.parent:
+        entry["parent"] = species.parent
+    if species.natural_abundance is not None:
+        entry["natural_abundance"] = species.natural_abundance
+    if species.constants_route != "entered":
+        entry["constants_route"] = species.constants_route
+    if species.route_note:
+        entry["route_note"] = species.route_note
+    if species.hyperfine is not None:
+        quad = species.hyperfine
+        entry["hyperfine"] = {
+            "nucleus": quad.nucleus,
+            "spin": quad.spin,
+            "chi_mhz": {c: list(quad.chi_mhz[c]) for c in QUADRUPOLE_COMPONENTS},
+        }
+    if species.geometry:
+        entry["geometry"] = [_atom_entry(atom) for atom in species.geometry]
+    return entry
+
+
+def _atom_entry(atom) -> dict:
+    entry = {"element": atom.element}
+    if atom.mass_number is not None:
+        entry["isotope"] = atom.mass_number
+    entry["xyz_a"] = list(atom.xyz_a)
     return entry
 
 
 def _state_entry(state, order) -> dict:
-    entry = {
-        "label": state.label,
-        "energy_cm1": state.energy_cm1,
-        "constants_mhz": {name: list(state.constants_mhz[name]) for name in order if name in state.constants_mhz},
-    }
+    entry = {"label": state.label, "energy_cm1": state.energy_cm1}
+    if state.degeneracy != 1:
+        entry["degeneracy"] = state.degeneracy
+    stored = state.stored_constants_mhz
+    entry["constants_mhz"] = {name: list(stored[name]) for name in order if name in stored}
+    if state.alpha_mhz:
+        entry["alpha_mhz"] = {name: list(state.alpha_mhz[name]) for name in order if name in state.alpha_mhz}
     if state.covariance_names:
         entry["covariance_mhz2"] = {
             "names": list(state.covariance_names),

@@ -11,7 +11,7 @@ from .measurement import DEFAULT_RELATIVE_MODEL, AbsorptionCell, RelativeModel, 
 from .plan import PlanRequest, PlanResult, PlanSpecies, make_plan, signal_vs_temperature
 from .predict import EngineLimitError, predict, predict_many
 from .request import PredictionRequest
-from .species import Species, SpeciesError, SpinWeights, State, allowed_parameters
+from .species import Atom, Quadrupole, Species, SpeciesError, SpinWeights, State, allowed_parameters
 from .structure import (
     Isotopologue,
     KraitchmanCoordinates,
@@ -48,6 +48,8 @@ __all__ = [
     "Species",
     "SpinWeights",
     "State",
+    "Atom",
+    "Quadrupole",
     "allowed_parameters",
     "AbsorptionCell",
     "DEFAULT_RELATIVE_MODEL",

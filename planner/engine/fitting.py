@@ -161,15 +161,8 @@ class FitResult:
         states = []
         for state in self.species.states:
             if state.label == self.state:
-                constants = dict(state.constants_mhz)
-                for name, value, sigma in zip(self.names, self.values, sigmas):
-                    constants[name] = (float(value), float(sigma))
-                state = dataclasses.replace(
-                    state,
-                    constants_mhz=constants,
-                    covariance_names=tuple(self.names),
-                    covariance_mhz2=tuple(tuple(float(x) for x in row) for row in covariance),
-                )
+                fitted = {name: (value, sigma) for name, value, sigma in zip(self.names, self.values, sigmas)}
+                state = state.with_fitted(fitted, self.names, covariance)
             states.append(state)
         return dataclasses.replace(self.species, states=tuple(states))
 
@@ -388,7 +381,7 @@ class _Model:
         constants = dict(self.state.constants_mhz)
         for name, value in zip(self.names, params):
             constants[name] = (float(value), 0.0)
-        trial = State(self.state.label, self.state.energy_cm1, constants)  # no covariance: levels only
+        trial = State(self.state.label, self.state.energy_cm1, constants, degeneracy=self.state.degeneracy)
         solver = solver_for(self.species, trial, derivative_names=self.names)
         if tuple(solver.derivative_names) != self.names:  # guards the column order
             raise AssertionError(f"solver derivative order {solver.derivative_names} != {self.names}")

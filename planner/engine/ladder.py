@@ -1,6 +1,8 @@
 """Climb the J ladder of a species until Q(T) and the line list are complete.
 
-Levels are solved J by J.  The climb of a state stops at the first J past the
+Levels are solved J by J.  Q(T) sums g_I·(2J+1)·g_K·g_v·e^(−E/kT) over the
+levels of every listed state, so the vibrational factor Σ g_v e^(−E_v/kT) of
+those states is part of it (states not listed are left out of Q).  The climb of a state stops at the first J past the
 Boltzmann peak where both
 
 * the levels of that J add less than ``Q_TOLERANCE`` of the partition sum so
@@ -27,6 +29,9 @@ from .labels import spin_symmetry_even
 from .levels import JLevels, solver_for
 from .request import ASYMMETRIC_J_CAP, CLOSED_FORM_J_CAP, PredictionRequest
 from .species import Species, State
+
+#: The rotational constants, whose ∂E/∂G are the ⟨P_g²⟩ of the levels.
+ROTATIONAL_CONSTANTS = ("A", "B", "C")
 
 #: A J whose levels add less than this fraction of Q(T) ends the climb.
 Q_TOLERANCE = 1e-12
@@ -129,6 +134,7 @@ def climb(species: Species, request: PredictionRequest) -> tuple[list[StateLadde
     k_degeneracy = 1.0 if species.rotor in ("linear", "asymmetric") else 2.0
     weights = species.spin_weights
     g_max = k_degeneracy * (max(weights.even, weights.odd) if weights else 1.0)
+    g_max *= max(state.degeneracy for state in species.states)
     mu_max2 = max(mu * mu for mu in species.dipole_debye)
     shared = _Climb(
         species,
@@ -164,9 +170,12 @@ def _refuse_hopeless(shared: _Climb, state: State, vibrational_mhz: float) -> No
 def _climb_state(shared: _Climb, state: State, vibrational_mhz: float) -> StateLadder:
     """Solve one state J by J until the stopping rule of the module docstring holds."""
     species, request, kt_mhz = shared.species, shared.request, shared.kt_mhz
-    # Only constants with a 1σ move the frequency σ: the others need no ∂E/∂p.
-    uncertain = tuple(name for name, (_, sigma) in state.constants_mhz.items() if sigma > 0)
-    solver = solver_for(species, state, uncertain)
+    # Only constants with a 1σ move the frequency σ: the others need no ∂E/∂p.  Hyperfine structure
+    # needs ⟨P_g²⟩ = ∂E/∂(A, B, C) (Hellmann–Feynman) of every level.
+    wanted = [name for name, (_, sigma) in state.constants_mhz.items() if sigma > 0]
+    if species.hyperfine is not None:
+        wanted += [name for name in ROTATIONAL_CONSTANTS if name in state.constants_mhz and name not in wanted]
+    solver = solver_for(species, state, tuple(wanted))
     ladder = StateLadder(state, solver.derivative_names, vibrational_mhz)
     previous_term = previous_bound = previous_low = None
     j = 0
@@ -174,7 +183,8 @@ def _climb_state(shared: _Climb, state: State, vibrational_mhz: float) -> StateL
         rung = solver.solve(j)
         level_weights = level_spin_weights(species, rung)
         energies = vibrational_mhz + rung.energies_mhz
-        term = partition_terms(energies, level_weights * rung.k_degeneracy * (2 * j + 1), request.temperature_k)
+        degeneracy = level_weights * rung.k_degeneracy * ((2 * j + 1) * state.degeneracy)
+        term = partition_terms(energies, degeneracy, request.temperature_k)
         ladder.rungs.append(rung)
         ladder.spin_weights.append(level_weights)
         shared.partition += term

@@ -38,6 +38,14 @@ LINE_COLUMNS: dict[str, tuple[str, str]] = {
         "integrated intensity per molecule at the temperature, spin weight and ±K degeneracy included [nm^2 MHz]",
     ),
     "doppler_fwhm_mhz": ("f8", "Doppler full width at half maximum at the temperature [MHz]"),
+    "vib_energy_cm1": (
+        "f8",
+        "energy of the line's vibrational state above the lowest one (0: no satellite) [cm^-1]",
+    ),
+    "hfs_low_mhz": ("f8", "offset of the lowest hyperfine component of >= 1 % of the line (0 without) [MHz]"),
+    "hfs_high_mhz": ("f8", "offset of the highest hyperfine component of >= 1 % of the line (0 without) [MHz]"),
+    "hfs_coupling_up_mhz": ("f8", "quadrupole coupling X_J of the upper level, E_Q(F) = X_J·Y(J,I,F) [MHz]"),
+    "hfs_coupling_lo_mhz": ("f8", "quadrupole coupling X_J of the lower level [MHz]"),
 }
 
 #: Columns whose -1 means "undefined" and that exports leave blank.

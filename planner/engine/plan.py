@@ -67,6 +67,7 @@ class PlanRequest:
     retune_overhead_s : time lost per setting [s], >= 0.
     min_intensity_nm2mhz : lines below this intensity are not predicted [nm² MHz], >= 0.
     max_eu_k : lines with a higher upper-state energy are left out [K], >= 0; None = no limit.
+    include_satellites : False leaves out the lines of excited vibrational states (each with its reason).
     """
 
     fmin_mhz: float
@@ -81,8 +82,11 @@ class PlanRequest:
     retune_overhead_s: float = 10.0
     min_intensity_nm2mhz: float = 0.0
     max_eu_k: float | None = None
+    include_satellites: bool = True
 
     def __post_init__(self):
+        if not isinstance(self.include_satellites, bool):
+            raise ValueError(f"include_satellites must be True or False, got {self.include_satellites!r}")
         self.prediction_request()  # validates the window, temperature and intensity floor
         _finite_number("slot_s", self.slot_s, 0.0, strict=True)
         _finite_number("snr", self.snr, 0.0, strict=True)
@@ -106,15 +110,40 @@ class PlanRequest:
 
 @dataclass(frozen=True)
 class PlanSpecies:
-    """A chosen species and its amount: mole fraction (absorption cell) or relative abundance, > 0."""
+    """A chosen species and its amount: mole fraction (absorption cell) or relative abundance, > 0.
+
+    For an isotopologue the amount is that of the molecule in all its isotopic forms; the signal is
+    weighted by ``isotopic_fraction``, the share of the molecules that are this isotopologue: given
+    for an enriched sample, else the species' natural abundance (1 when the catalogue states none).
+    """
 
     species: Species
     amount: float
+    isotopic_fraction: float | None = None
 
     def __post_init__(self):
         if not isinstance(self.species, Species):
             raise ValueError(f"species must be an engine Species, got {type(self.species).__name__}")
         _finite_number(f"amount of {self.species.name}", self.amount, 0.0, strict=True)
+        fraction = self.isotopic_fraction
+        if fraction is not None:
+            _finite_number(f"isotopic fraction of {self.species.name}", fraction, 0.0, strict=True)
+            if fraction > 1:
+                raise ValueError(
+                    f"isotopic fraction of {self.species.name} must be <= 1 (not per cent), got {fraction}"
+                )
+
+    @property
+    def fraction(self) -> float:
+        """The isotopic weight used: the given fraction, else the natural abundance, else 1."""
+        if self.isotopic_fraction is not None:
+            return float(self.isotopic_fraction)
+        return 1.0 if self.species.natural_abundance is None else float(self.species.natural_abundance)
+
+    @property
+    def effective_amount(self) -> float:
+        """amount × fraction: what the sensitivity model sees."""
+        return float(self.amount) * self.fraction
 
 
 @dataclass
@@ -206,15 +235,23 @@ def _signals(model, table: LineTable, amounts: dict[str, float], temperature_k: 
 
 
 def _blends(records: list[dict], widths: np.ndarray, blend_lines: LineTable) -> list[list[str]]:
-    """For each record, the other lines of ``blend_lines`` closer than its resolvable width [MHz]."""
+    """For each record, the other lines of ``blend_lines`` closer than its resolvable width [MHz].
+
+    A line with hyperfine structure spans its components, [ν + low, ν + high]:
+    two lines blend when their spans come closer than the width.
+    """
     order = np.argsort(blend_lines["frequency_mhz"], kind="stable")
     frequency = blend_lines["frequency_mhz"][order]
+    other_low = blend_lines["frequency_mhz"] + np.minimum(blend_lines["hfs_low_mhz"], 0.0)
+    other_high = blend_lines["frequency_mhz"] + np.maximum(blend_lines["hfs_high_mhz"], 0.0)
+    reach = float(max(np.max(other_high - other_low, initial=0.0), 0.0))
     result = []
     for record, width in zip(records, widths):
         f = record["frequency_mhz"]
-        first, last = np.searchsorted(frequency, [f - width, f + width], side="left")
+        low, high = f + min(record["hfs_low_mhz"], 0.0), f + max(record["hfs_high_mhz"], 0.0)
+        first, last = np.searchsorted(frequency, [low - width - reach, high + width + reach], side="left")
         near = order[first : last + 1]
-        near = near[np.abs(blend_lines["frequency_mhz"][near] - f) < width]
+        near = near[(other_low[near] < high + width) & (other_high[near] > low - width)]
         found = []
         for other in blend_lines.take(near).records() if len(near) else []:
             if line_key(other) != line_key(record):
@@ -279,12 +316,15 @@ def make_plan(
         messages.extend(prediction.messages)
         tables.append(_window_lines(prediction, item.species, request))
     lines = LineTable.concatenate(tables)
-    amounts = {p.species.name: float(p.amount) for p in chosen}
+    amounts = {p.species.name: p.effective_amount for p in chosen}
+    fractions = {p.species.name: p.fraction for p in chosen}
 
     too_hot = np.zeros(len(lines), dtype=bool)
     if request.max_eu_k is not None:
         too_hot = lines["eu_k"] > request.max_eu_k
-    kept = lines.take(np.nonzero(~too_hot)[0])
+    satellite = lines["vib_energy_cm1"] > 0
+    excluded = satellite & ~too_hot if not request.include_satellites else np.zeros(len(lines), dtype=bool)
+    kept = lines.take(np.nonzero(~too_hot & ~excluded)[0])
     signal = _signals(model, kept, amounts, request.temperature_k)
     time_s = time_to_snr_s(model, signal, request.snr)
     fwhm = voigt_fwhm(kept["doppler_fwhm_mhz"], model.pressure_hwhm_mhz())  # [1]
@@ -304,6 +344,8 @@ def make_plan(
         fwhm[target_index] / 2.0,
         request.k_sigma,
         request.margin_mhz,
+        kept["hfs_low_mhz"][target_index],
+        kept["hfs_high_mhz"][target_index],
     )
     segments = build_segments(
         kept["frequency_mhz"][target_index], lo, hi, request.fmin_mhz, request.fmax_mhz, request.setting_width_mhz
@@ -370,7 +412,12 @@ def make_plan(
             "intensity_nm2mhz": record["intensity_nm2mhz"],
             "doppler_fwhm_mhz": record["doppler_fwhm_mhz"],
             "fwhm_mhz": float(fwhm[i]),
+            "vib_energy_cm1": record["vib_energy_cm1"],
+            "satellite": record["vib_energy_cm1"] > 0,
+            "hfs_low_mhz": record["hfs_low_mhz"],
+            "hfs_high_mhz": record["hfs_high_mhz"],
             "amount": amounts[record["species"]],
+            "isotopic_fraction": fractions[record["species"]],
             "expected_signal": float(signal[i]),
             "time_to_snr_s": float(time_s[i]),
             "blends": blends[i],
@@ -391,6 +438,9 @@ def make_plan(
     hot = lines.take(np.nonzero(too_hot)[0]).records()
     for record in hot:
         reason = f"above max Eu: E_u = {record['eu_k']:.1f} K > {request.max_eu_k:g} K"
+        left_out.append(_left_out_row({"rank": None, **record}, reason))
+    for record in lines.take(np.nonzero(excluded)[0]).records():
+        reason = f"vibrational satellite ({record['state']}, {record['vib_energy_cm1']:.0f} cm⁻¹): satellites excluded"
         left_out.append(_left_out_row({"rank": None, **record}, reason))
 
     if uncovered:
@@ -474,7 +524,7 @@ def signal_vs_temperature(
     in for :func:`predict` (a caller may pass a caching one).
     """
     predict_function = predict_function or predict
-    amounts = {p.species.name: float(p.amount) for p in chosen}
+    amounts = {p.species.name: p.effective_amount for p in chosen}
     by_name = {p.species.name: p.species for p in chosen}
     keys = [tuple(k) for k in target_keys]
     unknown = sorted({k[0] for k in keys if k[0] not in by_name})

@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from .constants import MHZ_PER_CM1, MHZ_PER_K
+from .hyperfine import DEFAULT_SPREAD_FRACTION, quadrupole_coupling_mhz, spread_mhz
 from .intensity import doppler_fwhm, einstein_a, integrated_intensity
 from .ladder import EngineLimitError, StateLadder, climb
 from .linelist import LINE_COLUMNS, LineTable, Prediction, merge
@@ -93,6 +94,53 @@ def _frequency_sigma(ladder: StateLadder, up: np.ndarray, lo: np.ndarray) -> np.
     return np.sqrt(np.clip(variance, 0.0, None))
 
 
+def level_p_squared(species: Species, ladder: StateLadder) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """⟨Pa²⟩, ⟨Pb²⟩, ⟨Pc²⟩ of every level of the ladder (flat order) [dimensionless].
+
+    By Hellmann–Feynman ⟨P_g²⟩ = ∂E/∂G for the rotational constant G of axis g
+    (A, B, C enter the Hamiltonians only as G·P_g²; Gordy & Cook 1984, Ch. 7).
+    A symmetric top's B multiplies P_b² + P_c² (prolate) or P_a² + P_b²
+    (oblate), a linear molecule's P_b² + P_c², split equally by the axial symmetry.
+    """
+    names = list(ladder.parameter_names)
+    derivatives = np.concatenate([r.derivatives for r in ladder.rungs])
+    zeros = np.zeros(len(derivatives))
+
+    def along(name):
+        return derivatives[:, names.index(name)] if name in names else zeros
+
+    if species.rotor == "asymmetric":
+        return along("A"), along("B"), along("C")
+    half = along("B") / 2.0
+    if species.rotor == "symmetric-oblate":
+        return half, half, along("C")
+    return (along("A") if species.rotor == "symmetric-prolate" else zeros), half, half
+
+
+def _hyperfine_columns(species: Species, ladder: StateLadder, up: np.ndarray, lo: np.ndarray) -> dict:
+    """The hfs_* columns of the lines up ← lo: component spread and level couplings [MHz]."""
+    n = len(up)
+    quad = species.hyperfine
+    if quad is None:
+        return {name: np.zeros(n) for name in HYPERFINE_COLUMNS}
+    j = ladder.flat_j()
+    pa2, pb2, pc2 = level_p_squared(species, ladder)
+    chi = (quad.chi("aa"), quad.chi("bb"), -(quad.chi("aa") + quad.chi("bb")))  # exactly traceless
+    coupling = {}
+    for end, index in (("up", up), ("lo", lo)):
+        coupling[end] = quadrupole_coupling_mhz(j[index], pa2[index], pb2[index], pc2[index], *chi)
+    low, high = spread_mhz(j[up], j[lo], quad.spin, coupling["up"], coupling["lo"], DEFAULT_SPREAD_FRACTION)
+    return {
+        "hfs_low_mhz": low,
+        "hfs_high_mhz": high,
+        "hfs_coupling_up_mhz": coupling["up"],
+        "hfs_coupling_lo_mhz": coupling["lo"],
+    }
+
+
+HYPERFINE_COLUMNS = ("hfs_low_mhz", "hfs_high_mhz", "hfs_coupling_up_mhz", "hfs_coupling_lo_mhz")
+
+
 def _line_table(
     species: Species,
     ladder: StateLadder,
@@ -113,7 +161,7 @@ def _line_table(
     frequency = energy[up] - energy[lo]
     mu2 = np.array(species.dipole_debye) ** 2
     s_mu2 = strength * mu2[axis]
-    weight = spin[lo] * ladder.flat("k_degeneracy")[lo]
+    weight = spin[lo] * ladder.flat("k_degeneracy")[lo] * ladder.state.degeneracy
     intensity = integrated_intensity(frequency, weight * s_mu2, energy[lo], request.temperature_k, partition)
     # Keep the lines at or above the floor, in order of frequency, before building the other columns.
     keep = np.nonzero(intensity >= floor)[0]
@@ -150,6 +198,8 @@ def _line_table(
         "einstein_a_s": einstein_a(frequency, s_mu2, j[up]),
         "intensity_nm2mhz": intensity,
         "doppler_fwhm_mhz": doppler_fwhm(frequency, request.temperature_k, species.mass_amu),
+        "vib_energy_cm1": np.full(n, ladder.vibrational_mhz / MHZ_PER_CM1),
+        **_hyperfine_columns(species, ladder, up, lo),
     }
     assert list(columns) == list(LINE_COLUMNS)
     return LineTable(columns)

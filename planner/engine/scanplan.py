@@ -76,11 +76,15 @@ class Choice:
     optimal: bool = True
 
 
-def search_intervals(frequency_mhz, sigma_mhz, halfwidth_mhz, k_sigma, margin_mhz):
-    """Where each line may lie: ν ± (k σ + half width + margin) [MHz].
+def search_intervals(
+    frequency_mhz, sigma_mhz, halfwidth_mhz, k_sigma, margin_mhz, spread_low_mhz=0.0, spread_high_mhz=0.0
+):
+    """Where each line may lie: [ν + low − r, ν + high + r] with r = k σ + half width + margin [MHz].
 
     ``frequency_mhz``, ``sigma_mhz``, ``halfwidth_mhz`` [MHz] are arrays of
-    equal length; ``k_sigma`` >= 0 [dimensionless]; ``margin_mhz`` >= 0 [MHz].
+    equal length; ``k_sigma`` >= 0 [dimensionless]; ``margin_mhz`` >= 0 [MHz];
+    ``spread_low_mhz`` <= 0 <= ``spread_high_mhz`` (scalars or arrays) [MHz]
+    are the offsets of the outermost hyperfine components, 0 for an unsplit line.
     Returns the arrays (lo, hi) [MHz].
     """
     if not math.isfinite(k_sigma) or k_sigma < 0:
@@ -89,7 +93,9 @@ def search_intervals(frequency_mhz, sigma_mhz, halfwidth_mhz, k_sigma, margin_mh
         raise ValueError(f"margin_mhz must be a finite number >= 0 MHz, got {margin_mhz!r}")
     frequency = np.asarray(frequency_mhz, dtype=float)
     reach = k_sigma * np.asarray(sigma_mhz, dtype=float) + np.asarray(halfwidth_mhz, dtype=float) + margin_mhz
-    return frequency - reach, frequency + reach
+    low = np.minimum(np.asarray(spread_low_mhz, dtype=float), 0.0)
+    high = np.maximum(np.asarray(spread_high_mhz, dtype=float), 0.0)
+    return frequency + low - reach, frequency + high + reach
 
 
 def merge_intervals(lo, hi) -> list[tuple[float, float]]:

@@ -8,7 +8,7 @@ every physical constraint, raising :class:`SpeciesError` that names the field.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from types import MappingProxyType
 from typing import Mapping
 
@@ -66,6 +66,16 @@ REQUIRED_PARAMETERS = {
 }
 
 MAX_DIPOLE_DEBYE = 15.0  # no neutral molecule comes near this; catches unit slips
+
+#: How a species' constants were obtained: typed in (measured or computed elsewhere), scaled from the
+#: parent by the diatomic mass relations, or scaled from the parent through a stored geometry.
+CONSTANTS_ROUTES = ("entered", "mass-scaling", "geometry-ratio")
+#: Principal-axis components of a quadrupole coupling tensor, in file and engine order.
+QUADRUPOLE_COMPONENTS = ("aa", "bb", "cc")
+#: |χaa + χbb + χcc| allowed for three typed-in components [MHz] (published values are rounded).
+QUADRUPOLE_TRACE_TOLERANCE_MHZ = 0.01
+#: Two atoms of a geometry closer than this are a typing slip [Å].
+MIN_ATOM_DISTANCE_A = 0.3
 
 
 def allowed_parameters(rotor: str, reduction: str = "A") -> tuple[str, ...]:
@@ -142,13 +152,20 @@ class State:
     #: in that order.  Its diagonal is the σ² of those constants; others stay uncorrelated.
     covariance_names: tuple[str, ...] = ()
     covariance_mhz2: tuple[tuple[float, ...], ...] = ()
+    #: Vibrational degeneracy g_v (2 for one quantum of a doubly degenerate bend) [dimensionless].
+    degeneracy: int = 1
+    #: Constants given as differences from the ground state, {name: (α, σ)} [MHz]: this state's
+    #: value is the ground state's minus α (α = Σ αi·vi over the state's quanta).  Species fills
+    #: ``constants_mhz`` with the result and takes the ground state's other constants over.
+    alpha_mhz: Mapping[str, tuple[float, float]] = field(default_factory=dict)
+    #: Names in ``constants_mhz`` that Species derived (from alpha_mhz or the ground state), not typed in.
+    derived_names: tuple[str, ...] = ()
 
     def __post_init__(self):
-        object.__setattr__(
-            self,
-            "constants_mhz",
-            MappingProxyType({k: (float(v[0]), float(v[1])) for k, v in dict(self.constants_mhz).items()}),
-        )
+        for name in ("constants_mhz", "alpha_mhz"):
+            pairs = {k: (float(v[0]), float(v[1])) for k, v in dict(getattr(self, name)).items()}
+            object.__setattr__(self, name, MappingProxyType(pairs))
+        object.__setattr__(self, "derived_names", tuple(self.derived_names))
         object.__setattr__(self, "covariance_names", tuple(self.covariance_names))
         object.__setattr__(self, "covariance_mhz2", tuple(tuple(float(x) for x in row) for row in self.covariance_mhz2))
 
@@ -158,6 +175,33 @@ class State:
             len(self.covariance_names), len(self.covariance_names)
         )
 
+    @property
+    def stored_constants_mhz(self) -> dict[str, tuple[float, float]]:
+        """The constants to write back [MHz]: those typed in when the state has ``alpha_mhz``
+        (the others are derived again on reading), else all of them."""
+        if not self.alpha_mhz:
+            return dict(self.constants_mhz)
+        return {k: v for k, v in self.constants_mhz.items() if k not in self.derived_names}
+
+    def with_fitted(self, constants_mhz, covariance_names, covariance_mhz2) -> "State":
+        """A copy with some constants replaced by fitted (value, σ) [MHz] and the fit's covariance [MHz²].
+
+        A fitted constant becomes a typed-in one: its α, if it had one, is dropped.
+        """
+        merged = dict(self.constants_mhz)
+        merged.update({k: (float(v[0]), float(v[1])) for k, v in dict(constants_mhz).items()})
+        fitted = set(dict(constants_mhz))
+        return State(
+            self.label,
+            self.energy_cm1,
+            merged,
+            tuple(covariance_names),
+            tuple(tuple(float(x) for x in row) for row in covariance_mhz2),
+            self.degeneracy,
+            {k: v for k, v in self.alpha_mhz.items() if k not in fitted},
+            tuple(n for n in self.derived_names if n not in fitted),
+        )
+
     def value(self, name: str) -> float:
         """Value of a constant [MHz], 0 when the state does not list it."""
         return self.constants_mhz.get(name, (0.0, 0.0))[0]
@@ -165,6 +209,43 @@ class State:
     def sigma(self, name: str) -> float:
         """1σ of a constant [MHz], 0 when the state does not list it."""
         return self.constants_mhz.get(name, (0.0, 0.0))[1]
+
+
+@dataclass(frozen=True)
+class Atom:
+    """One atom of a stored geometry: element symbol, isotope mass number (None: the commonest) and
+    Cartesian position [Å] in any frame (the principal axes are found from the masses)."""
+
+    element: str
+    mass_number: int | None
+    xyz_a: tuple[float, float, float]
+
+    def __post_init__(self):
+        object.__setattr__(self, "xyz_a", tuple(self.xyz_a))
+
+
+@dataclass(frozen=True)
+class Quadrupole:
+    """One nucleus with an electric quadrupole moment that splits the rotational levels.
+
+    ``spin`` is its nuclear spin I (≥ 1, a multiple of ½); ``chi_mhz`` maps
+    "aa", "bb", "cc" to (χ_gg, σ) [MHz], the coupling constants eQq_gg along
+    the principal axes.  Species completes missing components from the
+    traceless condition χaa + χbb + χcc = 0 (and, for a linear molecule or a
+    symmetric top, from the axial symmetry of a nucleus on the axis).
+    """
+
+    nucleus: str
+    spin: float
+    chi_mhz: Mapping[str, tuple[float, float]]
+
+    def __post_init__(self):
+        pairs = {k: (float(v[0]), float(v[1])) for k, v in dict(self.chi_mhz).items()}
+        object.__setattr__(self, "chi_mhz", MappingProxyType(pairs))
+
+    def chi(self, component: str) -> float:
+        """χ_gg [MHz] of "aa", "bb" or "cc"."""
+        return self.chi_mhz[component][0]
 
 
 @dataclass(frozen=True)
@@ -188,15 +269,40 @@ class Species:
     source: str = ""
     notes: str = ""
     hazards: str = ""  # handling notes for the lab; the engine does not read them
+    #: One quadrupolar nucleus, or None for no hyperfine structure.
+    hyperfine: Quadrupole | None = None
+    #: Atoms of a stored geometry (for isotopologues and structure), () when none.
+    geometry: tuple[Atom, ...] = ()
+    #: Name of the species this isotopologue was derived from ("" for none).
+    parent: str = ""
+    #: Fraction of the molecules of a sample of natural isotopic composition that are this isotopologue
+    #: [dimensionless, (0, 1]]; None when not stated (then the plan weights it 1).
+    natural_abundance: float | None = None
+    #: How the constants were obtained (CONSTANTS_ROUTES) and what accuracy to expect, in words.
+    constants_route: str = "entered"
+    route_note: str = ""
 
     def __post_init__(self):
         object.__setattr__(self, "dipole_debye", tuple(float(x) for x in self.dipole_debye))
         object.__setattr__(self, "states", tuple(self.states))
+        object.__setattr__(self, "geometry", tuple(self.geometry))
         try:
+            object.__setattr__(self, "states", _resolved_states(self.states))
+            if self.hyperfine is not None:
+                object.__setattr__(self, "hyperfine", _completed_quadrupole(self.hyperfine, self.rotor))
             self._validate()
         except SpeciesError as error:
             error.species = self.name or None
             raise
+
+    @property
+    def ground_state(self) -> State:
+        """The state of lowest energy (the first of equal ones)."""
+        return min(self.states, key=lambda s: s.energy_cm1)
+
+    def is_satellite(self, state: State) -> bool:
+        """True for a state above the ground state (its lines are vibrational satellites)."""
+        return state.energy_cm1 > self.ground_state.energy_cm1
 
     def _validate(self) -> None:
         if not isinstance(self.name, str) or not self.name.strip():
@@ -227,6 +333,10 @@ class Species:
                 raise SpeciesError("spin_weights", "a linear molecule takes no spin weights (it has no K levels)")
             if self.rotor.startswith("symmetric") and self.spin_weights.axis != "C3":
                 raise SpeciesError("spin_weights.axis", "a symmetric top takes axis 'C3' weights only")
+        self._validate_isotopologue()
+        self._validate_geometry()
+        if self.hyperfine is not None:
+            self._validate_hyperfine()
         if not self.states:
             raise SpeciesError("states", "at least one state is needed")
         labels = set()
@@ -240,8 +350,65 @@ class Species:
             labels.add(state.label)
             if not _finite(state.energy_cm1) or state.energy_cm1 < 0:
                 raise SpeciesError(f"{where}.energy_cm1", f"must be >= 0 cm-1, got {state.energy_cm1!r}")
+            if isinstance(state.degeneracy, bool) or not isinstance(state.degeneracy, int) or state.degeneracy < 1:
+                raise SpeciesError(f"{where}.degeneracy", f"must be a whole number >= 1, got {state.degeneracy!r}")
             self._validate_constants(state, where, allowed)
             self._validate_covariance(state, f"{where}.covariance_mhz2")
+
+    def _validate_isotopologue(self) -> None:
+        if self.constants_route not in CONSTANTS_ROUTES:
+            raise SpeciesError(
+                "constants_route", f"must be one of {', '.join(CONSTANTS_ROUTES)}, got {self.constants_route!r}"
+            )
+        x = self.natural_abundance
+        if x is not None and (not _finite(x) or not 0 < x <= 1):
+            raise SpeciesError("natural_abundance", f"must be a fraction in (0, 1] (not per cent), got {x!r}")
+        if not isinstance(self.parent, str):
+            raise SpeciesError("parent", "must be a text")
+        if self.parent and self.parent == self.name:
+            raise SpeciesError("parent", "a species cannot be its own parent")
+
+    def _validate_geometry(self) -> None:
+        if not self.geometry:
+            return
+        if len(self.geometry) < 2:
+            raise SpeciesError("geometry", "needs at least two atoms")
+        for index, atom in enumerate(self.geometry):
+            where = f"geometry[{index}]"
+            if not isinstance(atom.element, str) or not atom.element.isalpha():
+                raise SpeciesError(f"{where}.element", f"must be an element symbol such as 'C', got {atom.element!r}")
+            number = atom.mass_number
+            if number is not None and (isinstance(number, bool) or not isinstance(number, int) or number < 1):
+                raise SpeciesError(f"{where}.isotope", f"must be a mass number such as 13, got {number!r}")
+            if len(atom.xyz_a) != 3 or not all(_finite(v) for v in atom.xyz_a):
+                raise SpeciesError(f"{where}.xyz_a", "must be three finite coordinates [Å]")
+        xyz = np.array([atom.xyz_a for atom in self.geometry])
+        distance = np.linalg.norm(xyz[:, None, :] - xyz[None, :, :], axis=-1) + np.eye(len(xyz)) * 1e9
+        i, j = np.unravel_index(np.argmin(distance), distance.shape)
+        if distance[i, j] < MIN_ATOM_DISTANCE_A:
+            raise SpeciesError(
+                f"geometry[{max(i, j)}].xyz_a",
+                f"lies {distance[i, j]:.3g} Å from geometry[{min(i, j)}]: atoms this close are a typing slip",
+            )
+
+    def _validate_hyperfine(self) -> None:
+        quad = self.hyperfine
+        if not isinstance(quad.nucleus, str) or not quad.nucleus.strip():
+            raise SpeciesError("hyperfine.nucleus", "must name the nucleus, e.g. '14N'")
+        spin = quad.spin
+        if not _finite(spin) or spin < 1 or abs(2 * spin - round(2 * spin)) > 1e-9:
+            raise SpeciesError("hyperfine.spin", f"must be a nuclear spin I >= 1 in steps of 1/2, got {spin!r}")
+        for component, (value, sigma) in quad.chi_mhz.items():
+            if component not in QUADRUPOLE_COMPONENTS:
+                raise SpeciesError(f"hyperfine.chi_mhz.{component}", "unknown component; use aa, bb, cc")
+            if not _finite(value) or not _finite(sigma) or sigma < 0:
+                raise SpeciesError(f"hyperfine.chi_mhz.{component}", "needs a finite value and a σ >= 0 [MHz]")
+        trace = sum(quad.chi(c) for c in QUADRUPOLE_COMPONENTS)
+        if abs(trace) > QUADRUPOLE_TRACE_TOLERANCE_MHZ:
+            raise SpeciesError(
+                "hyperfine.chi_mhz",
+                f"χaa + χbb + χcc must be 0 (the field gradient is traceless), got {trace:.6g} MHz",
+            )
 
     def _validate_constants(self, state: State, where: str, allowed: tuple[str, ...]) -> None:
         for name, (value, sigma) in state.constants_mhz.items():
@@ -297,6 +464,83 @@ class Species:
     @property
     def has_dipole(self) -> bool:
         return any(mu != 0 for mu in self.dipole_debye)
+
+
+def _resolved_states(states: tuple[State, ...]) -> tuple[State, ...]:
+    """States with ``alpha_mhz`` given their constants: ground-state value minus α, the rest taken over.
+
+    B_v = Be − Σ αi (vi + di/2) for each mode i with degeneracy di gives
+    B_v = B_0 − Σ αi vi, the same for A and C (Gordy & Cook 1984, Ch. 13), so α
+    here is Σ αi vi of the state's quanta.  σ² adds the ground state's σ² and α's.
+    """
+    if not any(state.alpha_mhz for state in states) or not states:
+        return states
+    ground = min(states, key=lambda s: s.energy_cm1)
+    resolved = []
+    for index, state in enumerate(states):
+        if not state.alpha_mhz or state.derived_names:
+            resolved.append(state)
+            continue
+        where = f"states[{index}].alpha_mhz"
+        if state is ground:
+            raise SpeciesError(where, "the ground state cannot be given as a difference from itself")
+        constants = dict(state.constants_mhz)
+        derived = []
+        for name, (alpha, sigma) in state.alpha_mhz.items():
+            if name in constants:
+                raise SpeciesError(f"{where}.{name}", f"give {name} either in constants_mhz or in alpha_mhz, not both")
+            if name not in ground.constants_mhz:
+                raise SpeciesError(f"{where}.{name}", f"the ground state ({ground.label}) has no {name} to start from")
+            if not (_finite(alpha) and _finite(sigma) and sigma >= 0):
+                raise SpeciesError(f"{where}.{name}", "needs a finite α and a σ >= 0 [MHz]")
+            value, ground_sigma = ground.constants_mhz[name]
+            constants[name] = (value - alpha, math.hypot(ground_sigma, sigma))
+            derived.append(name)
+        for name, pair in ground.constants_mhz.items():
+            if name not in constants:
+                constants[name] = pair
+                derived.append(name)
+        resolved.append(
+            State(
+                state.label,
+                state.energy_cm1,
+                constants,
+                state.covariance_names,
+                state.covariance_mhz2,
+                state.degeneracy,
+                state.alpha_mhz,
+                tuple(derived),
+            )
+        )
+    return tuple(resolved)
+
+
+def _completed_quadrupole(quad: Quadrupole, rotor: str) -> Quadrupole:
+    """All three χ_gg: missing ones from χaa + χbb + χcc = 0 and, on a symmetry axis, axial symmetry."""
+    given = dict(quad.chi_mhz)
+    missing = [c for c in QUADRUPOLE_COMPONENTS if c not in given]
+    if not missing:
+        return quad
+    if len(missing) == 1:
+        others = [given[c] for c in QUADRUPOLE_COMPONENTS if c != missing[0]]
+        given[missing[0]] = (-(others[0][0] + others[1][0]), math.hypot(others[0][1], others[1][1]))
+    elif len(missing) == 2 and rotor != "asymmetric":
+        (axis,) = [c for c in QUADRUPOLE_COMPONENTS if c in given]
+        expected = "cc" if rotor == "symmetric-oblate" else "aa"
+        if axis != expected:
+            raise SpeciesError(
+                "hyperfine.chi_mhz",
+                f"a {rotor} rotor with one coupling constant needs it along its symmetry axis: give {expected!r}",
+            )
+        value, sigma = given[axis]
+        for c in missing:
+            given[c] = (-value / 2.0, sigma / 2.0)
+    else:
+        raise SpeciesError(
+            "hyperfine.chi_mhz",
+            "give at least two of aa, bb, cc (an asymmetric top), or the one along the symmetry axis",
+        )
+    return Quadrupole(quad.nucleus, quad.spin, {c: given[c] for c in QUADRUPOLE_COMPONENTS})
 
 
 def _finite(value) -> bool:

@@ -5,7 +5,6 @@ from __future__ import annotations
 import dataclasses
 
 from planner.catalogue_file.masses import diatomic_masses
-from planner.engine import State
 from planner.engine.derived import inertial_defect_amu_a2, moments_of_inertia_amu_a2
 from planner.engine.structure import bond_length_a, equilibrium_b_mhz
 
@@ -61,9 +60,6 @@ def fitted_species_of(run, current):
         if state.label != result["state"]:
             states.append(state)
             continue
-        constants = dict(state.constants_mhz)
-        for constant in result["constants"]:
-            constants[constant["name"]] = (constant["value_mhz"], constant["sigma_mhz"])
-        covariance = tuple(tuple(row) for row in result["covariance_mhz2"])
-        states.append(State(state.label, state.energy_cm1, constants, tuple(names), covariance))
+        fitted = {c["name"]: (c["value_mhz"], c["sigma_mhz"]) for c in result["constants"]}
+        states.append(state.with_fitted(fitted, names, result["covariance_mhz2"]))
     return dataclasses.replace(current, states=tuple(states))
