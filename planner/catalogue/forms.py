@@ -23,11 +23,71 @@ from .models import (
     REDUCTION_CHOICES,
     REPRESENTATION_CHOICES,
     ROTOR_CHOICES,
+    ROUTE_CHOICES,
     SPIN_AXIS_CHOICES,
 )
 
 CONSTANTS_HELP = "One constant per line: name, value [MHz], 1σ [MHz], e.g. “B 6081.4921 0.0002”. Give σ = 0 if unknown."
+ALPHA_HELP = (
+    "Instead of (or besides) constants: one per line, name, α [MHz], 1σ [MHz], with this state's value = "
+    "ground-state value − α, e.g. “B 524.8 0.1”. Constants not given are the ground state's."
+)
+CHI_HELP = "One per line: component (aa, bb or cc), χ [MHz], 1σ [MHz]. Missing ones follow from χaa + χbb + χcc = 0."
+GEOMETRY_HELP = (
+    "One atom per line: element, optional mass number, x y z [Å], e.g. “O 16 0 0 -1.158” or “C 0 0 0”. "
+    "Used to scale isotopologue constants."
+)
 _SEPARATORS = re.compile(r"[\s,=±;]+")
+
+
+def _number(text: str) -> float:
+    return float(text.replace("−", "-"))
+
+
+def parse_named_pairs(text: str, what: str) -> tuple[dict[str, list[float]], list[str]]:
+    """{NAME: [value, sigma]} from lines "NAME value sigma", and the problems by line."""
+    pairs, problems = {}, []
+    for number, line in enumerate(text.splitlines(), start=1):
+        parts = [p for p in _SEPARATORS.split(line.strip()) if p]
+        if not parts:
+            continue
+        if len(parts) != 3:
+            problems.append(f"line {number}: give a name, a {what} and a σ, got “{line.strip()}”")
+            continue
+        name, *numbers = parts
+        try:
+            value, sigma = (_number(x) for x in numbers)
+        except ValueError:
+            problems.append(f"line {number}: {what} and σ must be numbers, got “{line.strip()}”")
+            continue
+        if name in pairs:
+            problems.append(f"line {number}: {name} is given twice")
+        pairs[name] = [value, sigma]
+    return pairs, problems
+
+
+def parse_geometry(text: str) -> tuple[list[dict], list[str]]:
+    """Catalogue-file atoms from lines "EL [MASS] x y z" [Å], and the problems by line."""
+    atoms, problems = [], []
+    for number, line in enumerate(text.splitlines(), start=1):
+        parts = [p for p in re.split(r"[\s,;]+", line.strip()) if p]
+        if not parts:
+            continue
+        if len(parts) not in (4, 5):
+            problems.append(f"line {number}: give element, optional mass number, x, y, z, got “{line.strip()}”")
+            continue
+        try:
+            xyz = [_number(x) for x in parts[-3:]]
+            isotope = int(parts[1]) if len(parts) == 5 else None
+        except ValueError:
+            problems.append(f"line {number}: the mass number and coordinates must be numbers, got “{line.strip()}”")
+            continue
+        atom = {"element": parts[0]}
+        if isotope is not None:
+            atom["isotope"] = isotope
+        atom["xyz_a"] = xyz
+        atoms.append(atom)
+    return atoms, problems
 
 
 def _number_input(**attrs):
@@ -65,7 +125,48 @@ class SpeciesForm(forms.Form):
         required=False,
         help_text="Handling cautions for the lab (toxic, flammable, …); shown wherever the species is planned.",
     )
+    parent = forms.CharField(
+        label="Parent species", max_length=NAME_LENGTH, required=False, help_text="For an isotopologue: its parent."
+    )
+    natural_abundance = forms.FloatField(
+        label="Natural abundance (fraction)",
+        required=False,
+        widget=_number_input(min="0", max="1"),
+        help_text="Share of the molecules in a natural sample, e.g. 0.0106 for 13CO; empty: not stated (weight 1).",
+    )
+    constants_route = forms.ChoiceField(
+        label="Constants obtained by", choices=ROUTE_CHOICES, initial="entered", required=False
+    )
+    route_note = forms.CharField(label="Route and accuracy", widget=forms.Textarea(attrs={"rows": 2}), required=False)
+    hfs_nucleus = forms.CharField(
+        label="Quadrupolar nucleus", max_length=10, required=False, help_text="e.g. 14N; empty: no hyperfine structure."
+    )
+    hfs_spin = forms.FloatField(label="Nuclear spin I", required=False, widget=_number_input(min="1", step="0.5"))
+    hfs_chi = forms.CharField(
+        label="Coupling constants χ",
+        widget=forms.Textarea(attrs={"rows": 3, "class": "constants", "spellcheck": "false"}),
+        required=False,
+        help_text=CHI_HELP,
+    )
+    geometry = forms.CharField(
+        label="Geometry",
+        widget=forms.Textarea(attrs={"rows": 4, "class": "constants", "spellcheck": "false"}),
+        required=False,
+        help_text=GEOMETRY_HELP,
+    )
     version = forms.IntegerField(widget=forms.HiddenInput, required=False)
+
+    def clean_hfs_chi(self) -> dict[str, list[float]]:
+        pairs, problems = parse_named_pairs(self.cleaned_data["hfs_chi"], "χ")
+        if problems:
+            raise forms.ValidationError(problems)
+        return pairs
+
+    def clean_geometry(self) -> list[dict]:
+        atoms, problems = parse_geometry(self.cleaned_data["geometry"])
+        if problems:
+            raise forms.ValidationError(problems)
+        return atoms
 
     def clean(self):
         cleaned = super().clean()
@@ -79,6 +180,13 @@ class SpeciesForm(forms.Form):
         for axis, mu in zip("abc", dipoles):
             if mu is not None and abs(mu) > MAX_DIPOLE_DEBYE:
                 self.add_error(f"dipole_{axis}_debye", f"Must be within 0–{MAX_DIPOLE_DEBYE:g} D.")
+        if cleaned.get("hfs_nucleus"):
+            if cleaned.get("hfs_spin") is None and "hfs_spin" not in self.errors:
+                self.add_error("hfs_spin", "Needed with a quadrupolar nucleus (I ≥ 1).")
+            if not cleaned.get("hfs_chi") and "hfs_chi" not in self.errors:
+                self.add_error("hfs_chi", "Give at least the coupling constant along the symmetry axis (aa).")
+        elif cleaned.get("hfs_chi") or cleaned.get("hfs_spin") is not None:
+            self.add_error("hfs_nucleus", "Name the nucleus (e.g. 14N), or clear the spin and χ fields.")
         if cleaned.get("spin_axis") == "":
             cleaned["spin_weight_even"] = cleaned["spin_weight_odd"] = None
         else:
@@ -96,36 +204,44 @@ class StateForm(forms.Form):
     energy_cm1 = forms.FloatField(
         label="Energy [cm⁻¹]", help_text="Above the ground state.", widget=_number_input(min="0", placeholder="0")
     )
+    degeneracy = forms.IntegerField(
+        label="Degeneracy g_v",
+        required=False,
+        min_value=1,
+        widget=_number_input(min="1", step="1", placeholder="1"),
+        help_text="2 for one quantum of a doubly degenerate bend.",
+    )
     constants = forms.CharField(
         label="Constants",
+        required=False,
         widget=forms.Textarea(attrs={"rows": 6, "class": "constants", "spellcheck": "false"}),
         help_text=CONSTANTS_HELP,
+    )
+    alpha = forms.CharField(
+        label="α from the ground state",
+        required=False,
+        widget=forms.Textarea(attrs={"rows": 2, "class": "constants", "spellcheck": "false"}),
+        help_text=ALPHA_HELP,
     )
 
     def clean_constants(self) -> dict[str, list[float]]:
         """{NAME: [value, sigma]} [MHz] from the lines of the text box."""
-        constants, problems = {}, []
-        for number, line in enumerate(self.cleaned_data["constants"].splitlines(), start=1):
-            parts = [p for p in _SEPARATORS.split(line.strip()) if p]
-            if not parts:
-                continue
-            if len(parts) != 3:
-                problems.append(f"line {number}: give a name, a value and a σ, got “{line.strip()}”")
-                continue
-            name, *numbers = parts
-            try:
-                value, sigma = (float(x.replace("−", "-")) for x in numbers)
-            except ValueError:
-                problems.append(f"line {number}: value and σ must be numbers, got “{line.strip()}”")
-                continue
-            if name in constants:
-                problems.append(f"line {number}: {name} is given twice")
-            constants[name] = [value, sigma]
+        constants, problems = parse_named_pairs(self.cleaned_data["constants"], "value")
         if problems:
             raise forms.ValidationError(problems)
-        if not constants:
-            raise forms.ValidationError("Give at least the rotational constants of this state.")
         return constants
+
+    def clean_alpha(self) -> dict[str, list[float]]:
+        alpha, problems = parse_named_pairs(self.cleaned_data["alpha"], "α")
+        if problems:
+            raise forms.ValidationError(problems)
+        return alpha
+
+    def clean(self):
+        cleaned = super().clean()
+        if not cleaned.get("constants") and not cleaned.get("alpha") and not self.errors:
+            self.add_error("constants", "Give at least the rotational constants of this state (or its α).")
+        return cleaned
 
 
 class BaseStateFormSet(forms.BaseFormSet):
@@ -166,13 +282,28 @@ def initial_data(species: Species, version: int) -> tuple[dict, list[dict]]:
         "source": species.source,
         "notes": species.notes,
         "hazards": species.hazards,
+        "parent": species.parent,
+        "natural_abundance": species.natural_abundance,
+        "constants_route": species.constants_route,
+        "route_note": species.route_note,
+        "hfs_nucleus": species.hyperfine.nucleus if species.hyperfine else "",
+        "hfs_spin": species.hyperfine.spin if species.hyperfine else None,
+        "hfs_chi": "\n".join(f"{k} {v[0]:.10g} {v[1]:.6g}" for k, v in species.hyperfine.chi_mhz.items())
+        if species.hyperfine
+        else "",
+        "geometry": "\n".join(
+            " ".join([a.element, *([str(a.mass_number)] if a.mass_number else []), *(f"{x:.6f}" for x in a.xyz_a)])
+            for a in species.geometry
+        ),
         "version": version,
     }
     states = [
         {
             "label": s.label,
             "energy_cm1": s.energy_cm1,
-            "constants": constants_text(s.constants_mhz, species.rotor, species.reduction),
+            "degeneracy": s.degeneracy,
+            "constants": constants_text(s.stored_constants_mhz, species.rotor, species.reduction),
+            "alpha": constants_text(s.alpha_mhz, species.rotor, species.reduction),
         }
         for s in species.states
     ]
@@ -197,18 +328,20 @@ def validated_species(form: SpeciesForm, states: BaseStateFormSet) -> Species | 
         "reduction": data["reduction"],
         "representation": data["representation"],
         "dipole_debye": {axis: data.get(f"dipole_{axis}_debye") or 0.0 for axis in "abc"},
-        "states": [
-            {
-                "label": f.cleaned_data["label"],
-                "energy_cm1": f.cleaned_data["energy_cm1"],
-                "constants_mhz": f.cleaned_data["constants"],
-            }
-            for f in checked
-        ],
+        "states": [_state_entry(f.cleaned_data) for f in checked],
         "source": data.get("source", ""),
         "notes": data.get("notes", ""),
         "hazards": data.get("hazards", ""),
+        "parent": data.get("parent", ""),
+        "constants_route": data.get("constants_route") or "entered",
+        "route_note": data.get("route_note", ""),
     }
+    if data.get("natural_abundance") is not None:
+        entry["natural_abundance"] = data["natural_abundance"]
+    if data.get("hfs_nucleus") and data.get("hfs_spin") is not None and data.get("hfs_chi"):
+        entry["hyperfine"] = {"nucleus": data["hfs_nucleus"], "spin": data["hfs_spin"], "chi_mhz": data["hfs_chi"]}
+    if data.get("geometry"):
+        entry["geometry"] = data["geometry"]
     if data.get("mass_amu") is not None:
         entry["mass_amu"] = data["mass_amu"]
     if data.get("spin_axis") and data.get("spin_weight_even") is not None and data.get("spin_weight_odd") is not None:
@@ -229,6 +362,15 @@ def validated_species(form: SpeciesForm, states: BaseStateFormSet) -> Species | 
     return species
 
 
+def _state_entry(cleaned: dict) -> dict:
+    state = {"label": cleaned["label"], "energy_cm1": cleaned["energy_cm1"], "constants_mhz": cleaned["constants"]}
+    if cleaned.get("degeneracy") is not None:
+        state["degeneracy"] = cleaned["degeneracy"]
+    if cleaned.get("alpha"):
+        state["alpha_mhz"] = cleaned["alpha"]
+    return state
+
+
 _SPIN_FIELDS = {
     "spin_weights": "spin_axis",
     "spin_weights.axis": "spin_axis",
@@ -237,7 +379,9 @@ _SPIN_FIELDS = {
     "spin_weights.odd": "spin_weight_odd",
     "spin_weights.other": "spin_weight_odd",
 }
-_STATE_PATH = re.compile(r"states\[(\d+)\](?:\.(label|energy_cm1|constants_mhz)(?:\.(.+))?)?$")
+_STATE_PATH = re.compile(
+    r"states\[(\d+)\](?:\.(label|energy_cm1|degeneracy|constants_mhz|alpha_mhz|covariance_mhz2)(?:\.(.+))?)?$"
+)
 
 
 def _place(path: str, message: str, form, kept, states, entry) -> None:
@@ -262,10 +406,19 @@ def _place(path: str, message: str, form, kept, states, entry) -> None:
         target = kept[index] if index < len(kept) else None
         if target is None:
             states._non_form_errors.append(message)
-        elif key in (None, "label", "energy_cm1"):
+        elif key in (None, "label", "energy_cm1", "degeneracy"):
             target.add_error(key or None, message)
         else:
-            target.add_error("constants", f"{parameter}: {message}" if parameter else message)
+            box = "alpha" if key == "alpha_mhz" else "constants"
+            target.add_error(box, f"{parameter}: {message}" if parameter else message)
+    elif path.startswith("hyperfine"):
+        box = {"hyperfine.nucleus": "hfs_nucleus", "hyperfine.spin": "hfs_spin"}.get(path, "hfs_chi")
+        if box not in form.errors:
+            form.add_error(box, message)
+    elif path.startswith("geometry"):
+        if "geometry" not in form.errors:
+            atom = re.match(r"geometry\[(\d+)\]", path)
+            form.add_error("geometry", f"atom {int(atom[1]) + 1}: {message}" if atom else message)
     elif path == "states":
         states._non_form_errors.append(message)
     else:

@@ -1,6 +1,6 @@
 from django.urls import path
 
-from planner.catalogue.views import editing, history, listing, species_page, transfer
+from planner.catalogue.views import editing, history, isotopologue, listing, species_page, transfer
 
 app_name = "catalogue"
 urlpatterns = [
@@ -13,6 +13,7 @@ urlpatterns = [
     path("<int:pk>/", species_page.species_page, name="species"),
     path("<int:pk>/edit/", editing.species_edit, name="edit"),
     path("<int:pk>/delete/", editing.species_delete, name="delete"),
+    path("<int:pk>/isotopologue/", isotopologue.isotopologue_create, name="isotopologue"),
     path("<int:pk>/history/", history.species_history, name="history"),
     path("<int:pk>/history/<int:history_id>/restore/", history.restore, name="restore"),
 ]

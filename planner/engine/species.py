@@ -478,13 +478,14 @@ def _resolved_states(states: tuple[State, ...]) -> tuple[State, ...]:
     ground = min(states, key=lambda s: s.energy_cm1)
     resolved = []
     for index, state in enumerate(states):
-        if not state.alpha_mhz or state.derived_names:
+        if not state.alpha_mhz:
             resolved.append(state)
             continue
         where = f"states[{index}].alpha_mhz"
         if state is ground:
             raise SpeciesError(where, "the ground state cannot be given as a difference from itself")
-        constants = dict(state.constants_mhz)
+        # From the typed-in constants every time, so that a changed (e.g. refitted) ground state carries over.
+        constants = state.stored_constants_mhz
         derived = []
         for name, (alpha, sigma) in state.alpha_mhz.items():
             if name in constants:

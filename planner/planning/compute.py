@@ -118,7 +118,10 @@ def build_plan(inputs: dict, catalogue: dict, predict_function=predict) -> dict:
     unknown = [s["name"] for s in inputs["species"] if s["name"] not in catalogue]
     if unknown:
         raise PlanInputError(f"the catalogue has no species {', '.join(repr(n) for n in unknown)}")
-    request = PlanRequest(**{key: inputs[key] for key in REQUEST_KEYS})
+    # Plans saved before satellites could be excluded have no such key: they included them.
+    request = PlanRequest(
+        **{key: inputs[key] for key in REQUEST_KEYS}, include_satellites=inputs.get("include_satellites", True)
+    )
     model = model_from_inputs(inputs["model"])
     window = PredictionRequest(
         request.fmin_mhz, request.fmax_mhz, request.temperature_k, min_intensity_nm2mhz=request.min_intensity_nm2mhz
@@ -134,7 +137,7 @@ def build_plan(inputs: dict, catalogue: dict, predict_function=predict) -> dict:
         if len(lines):
             intensity = lines["intensity_nm2mhz"]
             blend_tables.append(lines.take(np.nonzero(intensity >= BLEND_RELATIVE_FLOOR * intensity.max())[0]))
-    chosen = [PlanSpecies(catalogue[s["name"]], s["amount"]) for s in inputs["species"]]
+    chosen = [PlanSpecies(catalogue[s["name"]], s["amount"], s.get("isotopic_fraction")) for s in inputs["species"]]
     missing = [p.species.name for p in chosen if p.species.name not in predictions]
     if missing:
         raise PlanInputError(f"cannot predict {', '.join(missing)} at {request.temperature_k:g} K")

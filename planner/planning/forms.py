@@ -50,22 +50,45 @@ class PlanForm(forms.Form):
     pressure_pa = forms.FloatField(
         label="Pressure [Pa]", required=False, min_value=0, widget=_number(min="0"), help_text="Absorption cell only."
     )
+    satellites = forms.ChoiceField(
+        label="Vibrational satellites",
+        choices=[("include", "include"), ("exclude", "exclude")],
+        required=False,
+        initial="include",
+        help_text="Lines of excited vibrational states.",
+    )
 
-    def __init__(self, *args, species: list[tuple[int, str]], **kwargs):
+    def __init__(self, *args, species: list[tuple], **kwargs):
         super().__init__(*args, **kwargs)
         # Keyed by the species' id, which never moves: a saved query or a plan being saved
         # keeps its amounts on the right species when others are added to the catalogue.
-        self.species = species
-        for pk, name in species:
+        # Each item is (pk, name) or (pk, name, natural abundance or None).
+        self.species = [(item[0], item[1]) for item in species]
+        self.natural = {item[0]: (item[2] if len(item) > 2 else None) for item in species}
+        for pk, name in self.species:
             self.fields[f"amount_{pk}"] = forms.FloatField(
                 label=name,
                 required=False,
                 min_value=0,
                 widget=_number(min="0", placeholder="—", **{"aria-label": f"amount of {name}"}),
             )
+            natural = self.natural[pk]
+            self.fields[f"fraction_{pk}"] = forms.FloatField(
+                label=f"isotopic fraction of {name}",
+                required=False,
+                min_value=0,
+                max_value=1,
+                widget=_number(
+                    min="0",
+                    max="1",
+                    placeholder=f"{natural:.3g}" if natural is not None else "1",
+                    title="Share of the molecules that are this isotopologue; empty: natural abundance",
+                    **{"aria-label": f"isotopic fraction of {name}"},
+                ),
+            )
 
     def species_fields(self):
-        return [(name, self[f"amount_{pk}"]) for pk, name in self.species]
+        return [(name, self[f"amount_{pk}"], self[f"fraction_{pk}"]) for pk, name in self.species]
 
     def clean(self):
         cleaned = super().clean()
@@ -75,7 +98,14 @@ class PlanForm(forms.Form):
             if fmax <= fmin:
                 self.add_error("fmax", "Must be above the lower edge of the window.")
             cleaned["fmin_mhz"], cleaned["fmax_mhz"] = fmin * factor, fmax * factor
-        chosen = [(name, cleaned[f"amount_{pk}"]) for pk, name in self.species if cleaned.get(f"amount_{pk}")]
+        for pk, name in self.species:
+            if cleaned.get(f"fraction_{pk}") == 0:
+                self.add_error(f"fraction_{pk}", "Must be above 0; leave it empty for the natural abundance.")
+        chosen = [
+            (name, cleaned[f"amount_{pk}"], cleaned.get(f"fraction_{pk}"))
+            for pk, name in self.species
+            if cleaned.get(f"amount_{pk}")
+        ]
         if not chosen and not any(f"amount_{pk}" in self.errors for pk, _ in self.species):
             raise ValidationError("Give an abundance or mole fraction for at least one species.")
         if len(chosen) > MAX_SPECIES:
@@ -89,7 +119,7 @@ class PlanForm(forms.Form):
                     "choose a window inside it.",
                 )
             if instrument.model_kind == "absorption-cell":
-                for name, amount in chosen:
+                for name, amount, _ in chosen:
                     if amount > 1:
                         self.add_error(None, f"{name}: a mole fraction is at most 1, got {amount:g}.")
         cleaned["chosen"] = chosen
@@ -110,10 +140,18 @@ class PlanForm(forms.Form):
             "margin_mhz": data["margin_mhz"],
             "min_intensity_nm2mhz": data.get("min_intensity_nm2mhz") or 0.0,
             "max_eu_k": data.get("max_eu_k"),
-            "species": [{"name": name, "amount": amount} for name, amount in data["chosen"]],
+            "species": [_species_input(name, amount, fraction) for name, amount, fraction in data["chosen"]],
+            "include_satellites": data.get("satellites") != "exclude",
         }
         inputs |= instrument_inputs(instrument, data.get("pressure_pa"))
         return inputs
+
+
+def _species_input(name: str, amount: float, fraction: float | None) -> dict:
+    entry = {"name": name, "amount": amount}
+    if fraction is not None:
+        entry["isotopic_fraction"] = fraction
+    return entry
 
 
 #: Setting width, channel width and retuning time without an instrument (common practice, no source).

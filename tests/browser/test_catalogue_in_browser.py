@@ -89,7 +89,7 @@ def test_logging_in_through_the_form_lands_on_the_catalogue(anonymous_page, demo
 
 def test_list_shows_the_demo_and_filtering_by_rotor_narrows_it(page, demo_catalogue, screenshot):
     total = len(demo_catalogue)
-    assert total == 21
+    assert total == 23
     page.goto("/catalogue/")
     assert page.locator("#catalogue-table tbody tr").count() == total
     assert page.locator("#species-count").inner_text() == f"{total} of {total} species"

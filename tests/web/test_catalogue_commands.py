@@ -16,7 +16,7 @@ from planner.catalogue_file import catalogue_to_dict
 from planner.engine import LINE_COLUMNS, PredictionRequest, predict_many
 
 #: Species in the demo catalogue (planner/demo/catalogue.json; demo data, invented).
-DEMO_SPECIES_COUNT = 21
+DEMO_SPECIES_COUNT = 23
 
 #: A password for test accounts only (no source), long enough for any sensible rule.
 GOOD_PASSWORD = "absorption-cell-42"

@@ -58,7 +58,7 @@ def test_search_and_filters_narrow_the_list(viewer_client, query, expected):
     # Demo data (planner/demo/catalogue.json): which species match is a property of that file.
     response = viewer_client.get(URL, query)
     assert set(_names(response)) == expected
-    assert f"{len(expected)} of 21 species" in response.content.decode()
+    assert f"{len(expected)} of 23 species" in response.content.decode()
 
 
 def test_rotor_choices_carry_their_counts(viewer_client, demo_species):

@@ -58,6 +58,8 @@ def species_page(request, pk: int):
         "temperature_k": temperature_k,
         "can_edit": can_edit(request.user),
         "revisions": Timeline(pk).revisions()[:RECENT_REVISIONS],
+        "parent_row": SpeciesRow.objects.filter(name=species.parent).first() if species.parent else None,
+        "isotopologues": SpeciesRow.objects.filter(parent_name=species.name).order_by("name"),
     }
     context |= _spectrum(species, temperature_k)
     return render(request, "catalogue/species.html", context)

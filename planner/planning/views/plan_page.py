@@ -13,8 +13,8 @@ from planner.planning.models import SavedPlan
 from planner.planning.presentation import plan_context
 
 
-def _species() -> list[tuple[int, str]]:
-    return list(SpeciesRow.objects.order_by("name").values_list("pk", "name"))
+def _species() -> list[tuple[int, str, float | None]]:
+    return list(SpeciesRow.objects.order_by("name").values_list("pk", "name", "natural_abundance"))
 
 
 def _bound_plan(data):
