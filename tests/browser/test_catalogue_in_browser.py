@@ -161,7 +161,7 @@ def test_creating_a_species_shows_errors_next_to_the_fields_then_saves(page, scr
     # It is in the list now.
     page.goto("/catalogue/")
     assert _species_link(page, NEW_NAME).count() == 1
-    assert page.locator("#species-count").inner_text() == "22 of 22 species"
+    assert page.locator("#species-count").inner_text() == "24 of 24 species"
 
 
 # --- species page -------------------------------------------------------------------------

@@ -86,8 +86,8 @@ def _targets(page) -> list[tuple[int, str, str, str]]:
             (
                 int(cells.nth(0).inner_text()),
                 cells.nth(1).inner_text(),
-                cells.nth(3).inner_text(),
-                cells.nth(4).inner_text(),
+                cells.nth(4).inner_text(),  # cell 2 is the isotopic fraction, 3 the state
+                cells.nth(5).inner_text(),
             )
         )
     return found
