@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from django.db.models import Prefetch
 
+from planner.catalogue_file.writer import geometry_entries, hyperfine_entry
 from planner.engine import Atom, Quadrupole, Species, SpinWeights, State
 
 from .models import Constant
@@ -124,26 +125,6 @@ def row_fields(species: Species) -> dict:
         "natural_abundance": species.natural_abundance,
         "constants_route": species.constants_route,
         "route_note": species.route_note,
-        "hyperfine": hyperfine_data(species),
-        "geometry": geometry_data(species),
+        "hyperfine": hyperfine_entry(species),
+        "geometry": geometry_entries(species),
     }
-
-
-def hyperfine_data(species: Species) -> dict | None:
-    """The species' quadrupole nucleus in the catalogue file's form, None for none."""
-    quad = species.hyperfine
-    if quad is None:
-        return None
-    return {"nucleus": quad.nucleus, "spin": quad.spin, "chi_mhz": {k: list(v) for k, v in quad.chi_mhz.items()}}
-
-
-def geometry_data(species: Species) -> list[dict]:
-    """The stored geometry in the catalogue file's form ([] for none)."""
-    atoms = []
-    for atom in species.geometry:
-        entry = {"element": atom.element}
-        if atom.mass_number is not None:
-            entry["isotope"] = atom.mass_number
-        entry["xyz_a"] = list(atom.xyz_a)
-        atoms.append(entry)
-    return atoms

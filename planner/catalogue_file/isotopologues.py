@@ -177,7 +177,7 @@ def derive_isotopologue(parent: Species, substitutions, name: str | None = None)
         nucleus_element = re.sub(r"\d", "", hyperfine.nucleus)
         if any(atoms[p][0] == nucleus_element for p in changes):
             hyperfine = None
-            notes.append(f"Hyperfine structure dropped: the {hyperfine_label(parent)} nucleus itself was replaced.")
+            notes.append(f"Hyperfine structure dropped: the {parent.hyperfine.nucleus} nucleus itself was replaced.")
         elif route == "geometry-ratio" and rotor == "asymmetric":
             hyperfine = None
             notes.append("Hyperfine structure dropped: the principal axes moved; enter χ in the new axes.")
@@ -228,10 +228,6 @@ def _moves_substituted_atoms(parent: Species, atoms, changes: dict[int, int]) ->
     else:  # without a geometry only a homonuclear diatomic has an exchange
         permutations = [(1, 0)] if len(atoms) == 2 and elements[0] == elements[1] else []
     return any(p[i] != i for p in permutations for i in changes)
-
-
-def hyperfine_label(species: Species) -> str:
-    return species.hyperfine.nucleus if species.hyperfine else ""
 
 
 def _route_words(route: str) -> str:

@@ -74,23 +74,34 @@ def _species_entry(species: Species) -> dict:
     if species.route_note:
         entry["route_note"] = species.route_note
     if species.hyperfine is not None:
-        quad = species.hyperfine
-        entry["hyperfine"] = {
-            "nucleus": quad.nucleus,
-            "spin": quad.spin,
-            "chi_mhz": {c: list(quad.chi_mhz[c]) for c in QUADRUPOLE_COMPONENTS},
-        }
+        entry["hyperfine"] = hyperfine_entry(species)
     if species.geometry:
-        entry["geometry"] = [_atom_entry(atom) for atom in species.geometry]
+        entry["geometry"] = geometry_entries(species)
     return entry
 
 
-def _atom_entry(atom) -> dict:
-    entry = {"element": atom.element}
-    if atom.mass_number is not None:
-        entry["isotope"] = atom.mass_number
-    entry["xyz_a"] = list(atom.xyz_a)
-    return entry
+def hyperfine_entry(species: Species) -> dict | None:
+    """The species' quadrupole nucleus in the file's form, None for none."""
+    quad = species.hyperfine
+    if quad is None:
+        return None
+    return {
+        "nucleus": quad.nucleus,
+        "spin": quad.spin,
+        "chi_mhz": {c: list(quad.chi_mhz[c]) for c in QUADRUPOLE_COMPONENTS},
+    }
+
+
+def geometry_entries(species: Species) -> list[dict]:
+    """The stored geometry in the file's form ([] for none)."""
+    entries = []
+    for atom in species.geometry:
+        entry = {"element": atom.element}
+        if atom.mass_number is not None:
+            entry["isotope"] = atom.mass_number
+        entry["xyz_a"] = list(atom.xyz_a)
+        entries.append(entry)
+    return entries
 
 
 def _state_entry(state, order) -> dict:

@@ -11,7 +11,8 @@ from pathlib import Path
 
 from django.core.management.base import BaseCommand, CommandError
 
-from planner.catalogue_file import CatalogueError, dump_catalogue, load_catalogue
+from planner.catalogue.command_input import species_from_file
+from planner.catalogue_file import CatalogueError, dump_catalogue
 from planner.catalogue_file.isotopologues import DerivationError, derive_isotopologue
 
 
@@ -36,16 +37,7 @@ class Command(BaseCommand):
         parser.add_argument("--output", type=Path, default=None, metavar="FILE", help="file to write (default stdout)")
 
     def handle(self, *args, **options):
-        try:
-            catalogue = load_catalogue(options["catalogue"])
-        except (CatalogueError, OSError) as error:
-            raise CommandError(f"cannot read {options['catalogue']}: {error}") from error
-        by_name = {s.name: s for s in catalogue}
-        parent = by_name.get(options["species"])
-        if parent is None:
-            raise CommandError(
-                f"no species {options['species']!r} in {options['catalogue']}; it has: {', '.join(sorted(by_name))}"
-            )
+        _, parent = species_from_file(options["catalogue"], options["species"])
         try:
             derived = derive_isotopologue(parent, options["substitute"], options["name"])
         except DerivationError as error:

@@ -17,7 +17,8 @@ from pathlib import Path
 
 from django.core.management.base import BaseCommand, CommandError
 
-from planner.catalogue_file import CatalogueError, dump_catalogue, load_catalogue
+from planner.catalogue.command_input import species_from_file
+from planner.catalogue_file import CatalogueError, dump_catalogue
 from planner.engine.fitting import fit_constants
 from planner.fitting.lines_file import LinesFileError, read_lines
 from planner.fitting.report import structure
@@ -34,16 +35,7 @@ class Command(BaseCommand):
         parser.add_argument("--output", type=Path, default=None, metavar="FITTED.json")
 
     def handle(self, *args, **options):
-        try:
-            catalogue = load_catalogue(options["catalogue"])
-        except CatalogueError as error:
-            raise CommandError(f"catalogue {options['catalogue']} has problems:\n{error}") from error
-        by_name = {s.name: s for s in catalogue}
-        species = by_name.get(options["species"])
-        if species is None:
-            raise CommandError(
-                f"no species {options['species']!r} in {options['catalogue']}; it has: {', '.join(sorted(by_name))}"
-            )
+        catalogue, species = species_from_file(options["catalogue"], options["species"])
         try:
             lines = read_lines(options["lines"].read_text(encoding="utf-8"))
         except OSError as error:
