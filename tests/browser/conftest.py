@@ -50,6 +50,14 @@ def pytest_collection_modifyitems(config, items):
             item.add_marker(skip)
 
 
+def pytest_terminal_summary(terminalreporter):
+    """Say in the closing lines, not only in the skip list, that the browser tests did not run."""
+    if not CHROMIUM.exists():
+        terminalreporter.write_sep(
+            "=", f"browser tests SKIPPED: {CHROMIUM} is missing (apt-get install chromium; .ci/run does)", yellow=True
+        )
+
+
 @pytest.fixture(scope="module", autouse=True)
 def allow_sync_django_next_to_playwright():
     # playwright's sync API keeps an event loop running in this thread; Django
