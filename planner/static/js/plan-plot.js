@@ -6,6 +6,11 @@
   var source = document.getElementById("plan-data");
   if (!source || typeof Plotly === "undefined") { return; }
   var data = JSON.parse(source.textContent);
+  // Plotly reads a few HTML-like tags (<b>, <a href>, ...) in names and hover text; species names
+  // and state labels are text, so their < > & go in as entities, which Plotly shows as themselves.
+  function asText(value) {
+    return String(value).replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;");
+  }
   var font = {family: "system-ui, -apple-system, 'Segoe UI', Roboto, sans-serif", size: 12};
   var config = {responsive: true, displaylogo: false, modeBarButtonsToRemove: ["select2d", "lasso2d"]};
   var holder = document.getElementById("plan-plot");
@@ -19,7 +24,7 @@
        showlegend: false, legendgroup: name},
       {type: "scatter", mode: "markers", name: name, legendgroup: name, marker: {color: colour, size: 5},
        x: rows.map(function (r) { return r[0]; }), y: rows.map(function (r) { return r[1]; }),
-       customdata: rows.map(function (r) { return [r[2], r[3]]; }),
+       customdata: rows.map(function (r) { return [asText(r[2]), r[3]]; }),
        hovertemplate: "#%{customdata[1]} %{customdata[0]}<br>%{x:.4f} MHz<br>signal %{y:.3e}<extra></extra>"}
     ];
   }
@@ -52,9 +57,10 @@
     var curveHolder = document.getElementById("curve-plot");
     if (!curveHolder) { return; }
     var traces = data.curve.lines.map(function (line) {
-      return {type: "scatter", mode: "lines+markers", name: "#" + line.rank + " " + line.label,
+      var label = asText(line.label);
+      return {type: "scatter", mode: "lines+markers", name: "#" + line.rank + " " + label,
               x: data.curve.temperatures_k, y: line.expected_signal,
-              hovertemplate: "%{x} K: %{y:.3e}<extra>" + line.label + "</extra>"};
+              hovertemplate: "%{x} K: %{y:.3e}<extra>" + label + "</extra>"};
     });
     Plotly.react(curveHolder, traces, {
       margin: {l: 72, r: 16, t: 8, b: 44}, font: font, hovermode: "closest",

@@ -8,6 +8,11 @@
   var source = document.getElementById("plot-data");
   if (!holder || !source || typeof Plotly === "undefined") { return; }
   var data = JSON.parse(source.textContent);
+  // Plotly reads a few HTML-like tags (<b>, <a href>, ...) in names; a state label is text, so
+  // its < > & go in as entities, which Plotly shows as the characters themselves.
+  function asText(value) {
+    return String(value).replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;");
+  }
   var logBox = document.getElementById("log-scale");
   var colours = ["#1d4f91", "#b6412b", "#2c7a4b", "#7047a8", "#9a6b00", "#3b7f8f"];
   var hover = "<b>%{customdata[0]}</b><br>" +
@@ -37,12 +42,12 @@
         y.push(floor, s.intensity_nm2mhz[i], null);
       });
       all.push({
-        type: "scatter", mode: "lines", x: x, y: y, name: s.state, legendgroup: s.state,
+        type: "scatter", mode: "lines", x: x, y: y, name: asText(s.state), legendgroup: s.state,
         line: {color: colour, width: 1}, hoverinfo: "skip", showlegend: false
       });
       all.push({
         type: "scatter", mode: "markers", x: s.frequency_mhz, y: s.intensity_nm2mhz,
-        name: s.state, legendgroup: s.state, customdata: s.hover, hovertemplate: hover,
+        name: asText(s.state), legendgroup: s.state, customdata: s.hover, hovertemplate: hover,
         marker: {color: colour, size: 4}, showlegend: data.series.length > 1,
         // ±1σ of each frequency as a horizontal bar on the stick's top (visible when zoomed in)
         error_x: {type: "data", array: s.hover.map(function (h) { return h[1] || 0; }),
