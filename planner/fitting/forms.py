@@ -5,10 +5,9 @@ from __future__ import annotations
 from django import forms
 
 from planner.catalogue.models import Species
+from planner.limits import FIT_J_CAPS, MAX_LINES_BYTES
 
 from .lines_file import REQUIRED_COLUMNS, LinesFileError, read_lines
-
-MAX_LINES_BYTES = 1024 * 1024
 
 
 class FitForm(forms.Form):
@@ -34,19 +33,41 @@ class FitForm(forms.Form):
         text = cleaned.get("lines_text") or ""
         if upload is not None:
             if upload.size > MAX_LINES_BYTES:
-                self.add_error("lines_file", "The file is larger than 1 MB.")
+                self.add_error("lines_file", f"The file is larger than {MAX_LINES_BYTES // 1024 // 1024} MB.")
                 return cleaned
             try:
                 text = upload.read().decode("utf-8")
             except UnicodeDecodeError:
                 self.add_error("lines_file", "The file is not UTF-8 text.")
                 return cleaned
+        elif len(text.encode("utf-8")) > MAX_LINES_BYTES:
+            self.add_error("lines_text", f"The pasted lines are longer than {MAX_LINES_BYTES // 1024 // 1024} MB.")
+            return cleaned
         if not text.strip():
             self.add_error("lines_text", "Paste the assigned lines or upload a CSV file.")
             return cleaned
+        field = "lines_file" if upload is not None else "lines_text"
         try:
             cleaned["lines"] = read_lines(text)
         except LinesFileError as error:
-            self.add_error("lines_file" if upload is not None else "lines_text", error.problems)
+            self.add_error(field, error.problems)
+        else:
+            self._check_j(cleaned, field)
         cleaned["csv_text"] = text
         return cleaned
+
+    def _check_j(self, cleaned: dict, field: str) -> None:
+        """Refuse lines above the engine's J cap before the fit solves their levels (planner/limits.py)."""
+        row = cleaned.get("species")
+        cap = FIT_J_CAPS.get(row.rotor) if row is not None else None
+        if cap is None:
+            return
+        high = [i for i, line in enumerate(cleaned["lines"], start=1) if max(line.j_up, line.j_lo) > cap]
+        if high:
+            self.add_error(
+                field,
+                f"line {high[0]} has J above {cap}, the engine's limit for a {row.rotor} rotor"
+                + (f" ({len(high)} such lines)" if len(high) > 1 else "")
+                + ".",
+            )
+            del cleaned["lines"]

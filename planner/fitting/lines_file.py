@@ -14,6 +14,7 @@ import io
 import math
 
 from planner.engine.fitting import AssignedLine
+from planner.limits import MAX_FIT_LINES, MAX_LINES_FIELD_CHARS
 
 REQUIRED_COLUMNS = ("j_up", "ka_up", "kc_up", "j_lo", "ka_lo", "kc_lo", "frequency_mhz", "sigma_mhz")
 OPTIONAL_COLUMNS = ("state", "note", "source", "date")
@@ -56,7 +57,20 @@ def _number(text: str, row: int, column: str, problems: list[str]) -> float | No
 
 
 def read_lines(text: str) -> list[AssignedLine]:
-    """The assigned lines of a CSV text; LinesFileError listing every problem."""
+    """The assigned lines of a CSV text; LinesFileError listing every problem.
+
+    At most MAX_FIT_LINES rows and MAX_LINES_FIELD_CHARS characters per field (planner/limits.py):
+    a bigger file is refused before anything is fitted.
+    """
+    if "\x00" in text:
+        raise LinesFileError(["the file holds NUL bytes: it is not a CSV text file"])
+    try:
+        return _read_rows(text)
+    except csv.Error as error:  # e.g. a field longer than the csv module's own limit
+        raise LinesFileError([f"not a readable CSV file: {error}"]) from None
+
+
+def _read_rows(text: str) -> list[AssignedLine]:
     reader = csv.DictReader(io.StringIO(text))
     header = [h.strip() for h in (reader.fieldnames or [])]
     missing = [c for c in REQUIRED_COLUMNS if c not in header]
@@ -67,15 +81,23 @@ def read_lines(text: str) -> list[AssignedLine]:
             problems.append(f"header: missing columns {', '.join(missing)}")
         if unknown:
             problems.append(
-                f"header: unknown columns {', '.join(unknown)}; "
+                f"header: unknown columns {', '.join(c[:40] for c in unknown)}; "
                 f"allowed: {', '.join(REQUIRED_COLUMNS + OPTIONAL_COLUMNS)}"
             )
         raise LinesFileError(problems)
-    lines, problems = [], []
+    lines, problems, rows_read = [], [], 0
     for row_number, raw in enumerate(reader, start=2):
         row = {key.strip(): (value or "") for key, value in raw.items() if key is not None}
         if not any(v.strip() for v in row.values()):
             continue
+        rows_read += 1
+        if rows_read > MAX_FIT_LINES:
+            raise LinesFileError([f"more than {MAX_FIT_LINES} lines: fit at most {MAX_FIT_LINES} at once"])
+        long = [key for key, value in row.items() if len(value) > MAX_LINES_FIELD_CHARS]
+        if long:
+            raise LinesFileError(
+                [f"row {row_number}, {long[0]}: longer than {MAX_LINES_FIELD_CHARS} characters: not a lines file"]
+            )
         numbers = {
             c: _integer(row[c], row_number, c, problems, blank_ok=c not in ("j_up", "j_lo"))
             for c in REQUIRED_COLUMNS[:6]

@@ -13,9 +13,8 @@ from django.utils import timezone
 from planner.catalogue.access import ADD, CHANGE, VIEW, needs
 from planner.catalogue.store import Stamp, export_species, import_species
 from planner.catalogue_file import CatalogueError, Problem, dump_catalogue, parse_catalogue_bytes
-
-#: A catalogue of a few hundred species is well under this; anything bigger is a wrong file.
-MAX_UPLOAD_BYTES = 2 * 1024 * 1024
+from planner.limits import MAX_CATALOGUE_BYTES as MAX_UPLOAD_BYTES
+from planner.limits import MAX_IMPORT_SPECIES
 
 
 class ImportForm(forms.Form):
@@ -42,6 +41,10 @@ def import_page(request):
         upload = form.cleaned_data["catalogue_file"]
         try:
             species = parse_catalogue_bytes(upload.read())
+            if len(species) > MAX_IMPORT_SPECIES:
+                raise CatalogueError(
+                    [Problem(None, "file", f"holds {len(species)} species; at most {MAX_IMPORT_SPECIES} per import")]
+                )
             summary = import_species(species, Stamp(request.user, f"imported from {upload.name}"))
         except CatalogueError as error:
             problems = error.problems
