@@ -10,6 +10,7 @@ from django import forms
 from django.core.exceptions import ValidationError
 
 from planner.engine.request import MAX_TEMPERATURE_K
+from planner.limits import MAX_FREQUENCY_MHZ, MAX_PLAN_SPAN_MHZ
 
 from .compute import default_model_inputs
 from .models import Instrument
@@ -97,6 +98,13 @@ class PlanForm(forms.Form):
         if fmin is not None and fmax is not None:
             if fmax <= fmin:
                 self.add_error("fmax", "Must be above the lower edge of the window.")
+            elif (fmax - fmin) * factor > MAX_PLAN_SPAN_MHZ or fmax * factor > MAX_FREQUENCY_MHZ:
+                # planner/limits.py: the window bounds the work of one plan request.
+                self.add_error(
+                    "fmax",
+                    f"Plan a window of at most {MAX_PLAN_SPAN_MHZ / 1000:g} GHz below "
+                    f"{MAX_FREQUENCY_MHZ / 1000:g} GHz; split a wider one into several plans.",
+                )
             cleaned["fmin_mhz"], cleaned["fmax_mhz"] = fmin * factor, fmax * factor
         for pk, name in self.species:
             if cleaned.get(f"fraction_{pk}") == 0:

@@ -11,6 +11,7 @@ from django.core.exceptions import ValidationError
 
 from planner.engine import PredictionRequest
 from planner.engine.request import MAX_TEMPERATURE_K
+from planner.limits import MAX_FREQUENCY_MHZ
 
 DEFAULT_TEMPERATURE_K = 300.0
 DEFAULT_FMIN_MHZ = 0.0
@@ -67,6 +68,12 @@ class SpectrumForm(forms.Form):
         fmin, fmax = cleaned.get("fmin_mhz"), cleaned.get("fmax_mhz")
         if fmin is not None and fmax is not None and fmax <= fmin:
             self.add_error("fmax_mhz", "Must be above the lower edge of the window.")
+        elif fmax is not None and fmax > MAX_FREQUENCY_MHZ:
+            # planner/limits.py: the window's top edge bounds the work of one request.
+            self.add_error(
+                "fmax_mhz",
+                f"At most {MAX_FREQUENCY_MHZ:.0f} MHz ({MAX_FREQUENCY_MHZ / 1e6:g} THz): choose a lower window.",
+            )
         if not self.errors:
             self._build_request(cleaned)
         return cleaned
