@@ -135,7 +135,18 @@ if PRODUCTION:
     CSRF_COOKIE_SECURE = True
     SECURE_CONTENT_TYPE_NOSNIFF = True
     SECURE_SSL_REDIRECT = env_bool(ENVIRON, "LINECAST_SSL_REDIRECT", default=True)
-    SECURE_HSTS_SECONDS = env_int(ENVIRON, "LINECAST_HSTS_SECONDS", default=0)
+    # HSTS on by default: production already redirects every plain-HTTP request to HTTPS, so
+    # telling browsers to skip plain HTTP for a year (the usual max-age, common practice) only
+    # closes the first-request downgrade.  Subdomains are included: the header covers only hosts
+    # below the one serving Linecast (linecast.example.org → *.linecast.example.org), which are
+    # ours.  Preload stays off and its check is silenced: the browsers' preload lists take the
+    # whole registrable domain (a department's or university's), a commitment a group server
+    # cannot make for its institution and that is slow to undo.
+    SECURE_HSTS_SECONDS = env_int(ENVIRON, "LINECAST_HSTS_SECONDS", default=365 * 24 * 3600)
+    SECURE_HSTS_INCLUDE_SUBDOMAINS = env_bool(ENVIRON, "LINECAST_HSTS_INCLUDE_SUBDOMAINS", default=True)
+    SECURE_HSTS_PRELOAD = env_bool(ENVIRON, "LINECAST_HSTS_PRELOAD", default=False)
+    if not SECURE_HSTS_PRELOAD:
+        SILENCED_SYSTEM_CHECKS = ["security.W021"]
     # Behind a proxy that terminates TLS and sets X-Forwarded-Proto.
     if env_bool(ENVIRON, "LINECAST_BEHIND_PROXY", default=False):
         SECURE_PROXY_SSL_HEADER = ("HTTP_X_FORWARDED_PROTO", "https")
