@@ -34,6 +34,9 @@ INSTALLED_APPS = [
     "planner.planning",
     "planner.fitting",
     "planner.spectra",
+    "planner.api",
+    # Only for the API docs page: ninja then serves Swagger UI from its own bundled static files, no CDN.
+    "ninja",
 ]
 
 MIDDLEWARE = [

@@ -11,6 +11,7 @@ urlpatterns = [
     path("spectrum/", include("planner.spectra.urls")),
     path("planning/", include("planner.planning.urls")),
     path("fitting/", include("planner.fitting.urls")),
+    path("api/v1/", include(("planner.api.urls", "api-v1"))),
     path("accounts/login/", auth_views.LoginView.as_view(), name="login"),
     path("accounts/logout/", auth_views.LogoutView.as_view(), name="logout"),
     path("admin/", admin.site.urls),
