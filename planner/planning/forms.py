@@ -10,7 +10,7 @@ from django import forms
 from django.core.exceptions import ValidationError
 
 from planner.engine.request import MAX_TEMPERATURE_K
-from planner.limits import MAX_FREQUENCY_MHZ, MAX_PLAN_SPAN_MHZ
+from planner.limits import MAX_FREQUENCY_MHZ, MAX_PLAN_SETTINGS, MAX_PLAN_SPAN_MHZ
 
 from .compute import default_model_inputs
 from .models import Instrument
@@ -119,6 +119,8 @@ class PlanForm(forms.Form):
         if len(chosen) > MAX_SPECIES:
             raise ValidationError(f"Plan at most {MAX_SPECIES} species at once.")
         instrument = cleaned.get("instrument")
+        if "fmin_mhz" in cleaned and not self.has_error("fmax"):
+            self._check_settings(cleaned, instrument)
         if instrument is not None and "fmin_mhz" in cleaned:
             if cleaned["fmin_mhz"] < instrument.fmin_mhz or cleaned["fmax_mhz"] > instrument.fmax_mhz:
                 self.add_error(
@@ -132,6 +134,18 @@ class PlanForm(forms.Form):
                         self.add_error(None, f"{name}: a mole fraction is at most 1, got {amount:g}.")
         cleaned["chosen"] = chosen
         return cleaned
+
+    def _check_settings(self, cleaned: dict, instrument) -> None:
+        """Refuse a window that the instrument's setting width cuts into too many pieces (planner/limits.py)."""
+        width = instrument.setting_width_mhz if instrument is not None else DEFAULT_SETTINGS["setting_width_mhz"]
+        settings = (cleaned["fmax_mhz"] - cleaned["fmin_mhz"]) / width
+        if settings > MAX_PLAN_SETTINGS:
+            self.add_error(
+                "fmax",
+                f"With settings {width:g} MHz wide this window needs {settings:.0f} of them; at most "
+                f"{MAX_PLAN_SETTINGS} are planned at once: choose a window of at most "
+                f"{MAX_PLAN_SETTINGS * width:g} MHz.",
+            )
 
     def inputs(self) -> dict:
         """The plain, JSON-ready inputs of compute.compute_plan."""

@@ -17,9 +17,9 @@ from planner.catalogue.models import Species as SpeciesRow
 from planner.catalogue.page_forms import MAX_TEMPERATURES
 from planner.engine.request import ASYMMETRIC_J_CAP, CLOSED_FORM_J_CAP, MAX_TEMPERATURE_K
 from planner.fitting.models import FitRun
-from planner.limits import MAX_FREQUENCY_MHZ, MAX_PLAN_SPAN_MHZ
+from planner.limits import MAX_FREQUENCY_MHZ, MAX_PLAN_SETTINGS, MAX_PLAN_SPAN_MHZ
 from planner.planning.forms import MAX_SPECIES
-from planner.planning.models import SavedPlan
+from planner.planning.models import Instrument, SavedPlan
 from tests.fitting.test_fit_command import CO_LINES
 from tests.web.conftest import CO2_ENTRY
 
@@ -161,6 +161,28 @@ def test_saving_a_plan_over_the_span_cap_saves_nothing(editor_client, no_predict
     response = editor_client.post(reverse("planning:save"), data)
     assert response.status_code == 302
     assert not SavedPlan.objects.exists()
+
+
+def test_plan_needing_too_many_narrow_settings_is_refused(viewer_client, no_prediction):
+    # A narrow-band instrument (invented numbers) over a window its setting width cuts into
+    # MAX_PLAN_SETTINGS + 1 pieces.
+    cavity = Instrument.objects.create(
+        name="narrow cavity",
+        fmin_mhz=1_000.0,
+        fmax_mhz=200_000.0,
+        setting_width_mhz=0.5,
+        channel_width_mhz=0.001,
+        model_kind="relative",
+        detection_floor_1s=1e-6,
+    )
+    fmax_mhz = 10_000 + (MAX_PLAN_SETTINGS + 1) * 0.5
+    response = viewer_client.get(PLAN, _plan_query("10000", f"{fmax_mhz:g}", "MHz", instrument=cavity.pk))
+    assert response.status_code == 400
+    message = (
+        f"With settings 0.5 MHz wide this window needs {MAX_PLAN_SETTINGS + 1} of them; at most {MAX_PLAN_SETTINGS} "
+        f"are planned at once: choose a window of at most {MAX_PLAN_SETTINGS * 0.5:g} MHz."
+    )
+    assert message in _errors(response, "fmax")
 
 
 def test_plan_temperature_above_the_engine_cap_is_refused(viewer_client, no_prediction):
