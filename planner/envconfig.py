@@ -9,6 +9,7 @@ so tests can pass a plain dict instead of patching ``os.environ``.
 from __future__ import annotations
 
 from collections.abc import Mapping
+from urllib.parse import urlsplit
 
 from django.core.exceptions import ImproperlyConfigured
 
@@ -104,4 +105,45 @@ def deployment_settings(environ: Mapping[str, str]) -> dict:
         "DEBUG": False,
         "SECRET_KEY": secret_key,
         "ALLOWED_HOSTS": env_list(environ, "ALLOWED_HOSTS"),
+    }
+
+
+#: Cache of one process's memory: what development and a single-process server use.
+LOCAL_MEMORY_CACHE = {"BACKEND": "django.core.cache.backends.locmem.LocMemCache", "OPTIONS": {"MAX_ENTRIES": 2000}}
+REDIS_SCHEMES = ("redis", "rediss")
+
+
+def cache_settings(environ: Mapping[str, str], name: str = "LINECAST_CACHE_URL") -> dict:
+    """CACHES for variable ``name``: this process's memory when unset, a redis server for a redis URL.
+
+    ``redis://[:password@]host[:port][/db]`` (``rediss://`` for TLS) goes to
+    Django's own RedisCache, so every gunicorn worker shares one cache.  Other
+    schemes are refused: memcached's default 1 MB item limit is below the
+    pickled size of a wide prediction, which would then silently never be cached.
+    """
+    text = environ.get(name, "").strip()
+    if not text:
+        return {"default": dict(LOCAL_MEMORY_CACHE)}
+    url = urlsplit(text)
+    # Messages show the URL without its password: start-up errors end up in logs.
+    shown = text.replace(f":{url.password}@", ":***@") if url.password else text
+    usage = "use redis://host:port/db (rediss:// for TLS), or leave it empty for each process's own memory"
+    if url.scheme not in REDIS_SCHEMES:
+        raise ImproperlyConfigured(f"{name}={shown!r} has the unknown scheme {url.scheme!r}; {usage}")
+    try:
+        url.port
+    except ValueError:
+        raise ImproperlyConfigured(f"{name}={shown!r} has a port that is not a number from 0 to 65535") from None
+    if not url.hostname:
+        raise ImproperlyConfigured(f"{name}={shown!r} names no host; {usage}")
+    database = url.path.strip("/")
+    if database and not database.isdigit():
+        raise ImproperlyConfigured(f"{name}={shown!r}: the database after the host must be a number, e.g. /0")
+    return {
+        "default": {
+            "BACKEND": "django.core.cache.backends.redis.RedisCache",
+            "LOCATION": text,
+            # A shared server may hold other programs' keys too.
+            "KEY_PREFIX": "linecast",
+        }
     }

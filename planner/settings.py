@@ -11,7 +11,7 @@ from pathlib import Path
 
 import dj_database_url
 
-from planner.envconfig import deployment_settings, env_bool, env_int
+from planner.envconfig import cache_settings, deployment_settings, env_bool, env_int
 
 BASE_DIR = Path(__file__).resolve().parent.parent
 ENVIRON = os.environ
@@ -120,9 +120,9 @@ AUTH_PASSWORD_VALIDATORS = [
     {"NAME": "django.contrib.auth.password_validation.NumericPasswordValidator"},
 ]
 
-# Predictions are cached by species version and conditions (planner/planning/compute.py), in
-# this process's memory; a group server with several worker processes may point this at a shared cache.
-CACHES = {"default": {"BACKEND": "django.core.cache.backends.locmem.LocMemCache", "OPTIONS": {"MAX_ENTRIES": 2000}}}
+# Predictions and plans are cached by species version and conditions (planner/catalogue/predictions.py), in
+# each process's memory unless LINECAST_CACHE_URL names a redis server that all gunicorn workers share.
+CACHES = cache_settings(ENVIRON)
 
 # Every page needs a logged-in member of the group (see planner/catalogue/roles.py).
 LOGIN_URL = "login"

@@ -4,7 +4,8 @@
 ``compute_plan`` returns the frozen document that is shown, saved, exported
 and printed: ``{"inputs", "result", "temperature_curve", "catalogue_versions",
 "hazards", "computed_at"}``.  Predictions are cached per species version and
-conditions, so replanning with the same window and temperature is quick.
+conditions (``planner.catalogue.predictions``, shared with the spectrum and
+species pages), so replanning with the same window and temperature is quick.
 """
 
 from __future__ import annotations
@@ -18,6 +19,7 @@ from django.utils import timezone
 
 from planner.catalogue.conversion import species_of_row, with_constants
 from planner.catalogue.models import Species as SpeciesRow
+from planner.catalogue.predictions import CACHE_SECONDS, cached_prediction
 from planner.engine import LineTable, PredictionRequest, predict
 from planner.engine.measurement import DEFAULT_RELATIVE_MODEL, AbsorptionCell, RelativeModel
 from planner.engine.plan import PlanRequest, PlanSpecies, make_plan, signal_vs_temperature
@@ -25,7 +27,6 @@ from planner.engine.plan import PlanRequest, PlanSpecies, make_plan, signal_vs_t
 #: Temperatures of the "which temperature favours them" plot [K].
 CURVE_TEMPERATURES_K = (5.0, 10.0, 20.0, 40.0, 75.0, 100.0, 150.0, 200.0, 300.0, 400.0, 500.0)
 CURVE_TARGETS = 5
-CACHE_SECONDS = 24 * 3600
 #: Lines weaker than this fraction of their species' strongest line in the window do not count as
 #: blends: at the engine's 10⁻⁹ relative floor every target would otherwise have a "blend".
 BLEND_RELATIVE_FLOOR = 1e-4
@@ -62,21 +63,6 @@ def model_from_inputs(model: dict):
 
 def default_model_inputs() -> dict:
     return {"kind": "relative", "detection_floor_1s": DEFAULT_RELATIVE_MODEL.detection_floor_1s}
-
-
-def _prediction_key(row: SpeciesRow, request: PredictionRequest) -> str:
-    # The request is a frozen dataclass: its repr names every condition (window, temperature, floors, cap).
-    return "linecast-prediction:" + hashlib.sha1(repr((row.pk, row.version, request)).encode()).hexdigest()
-
-
-def cached_prediction(row: SpeciesRow, species, request: PredictionRequest):
-    """predict(species, request), cached by species id and version and the request's conditions."""
-    key = _prediction_key(row, request)
-    prediction = cache.get(key)
-    if prediction is None:
-        prediction = predict(species, request)
-        cache.set(key, prediction, CACHE_SECONDS)
-    return prediction
 
 
 class PlanInputError(ValueError):

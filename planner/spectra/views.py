@@ -16,7 +16,8 @@ from django.shortcuts import render
 from planner.catalogue.access import VIEW, needs
 from planner.catalogue.conversion import species_of_row, with_constants
 from planner.catalogue.models import Species as SpeciesRow
-from planner.engine import Prediction, Species, predict
+from planner.catalogue.predictions import cached_prediction
+from planner.engine import Prediction, Species
 from planner.spectra.exports import prediction_csv, prediction_json
 from planner.spectra.forms import SpectrumForm
 from planner.spectra.plot import plot_data
@@ -73,13 +74,14 @@ def _prediction_from_query(request) -> tuple[SpectrumForm, Species | None, Predi
     Returns the form (carrying any errors), the chosen species and the
     prediction, the last two None when there is nothing to show.
     """
-    species_list = [species_of_row(row) for row in with_constants(SpeciesRow.objects.all())]
-    form = SpectrumForm(request.GET or None, species_names=[s.name for s in species_list])
+    rows = {row.name: row for row in with_constants(SpeciesRow.objects.all())}
+    form = SpectrumForm(request.GET or None, species_names=list(rows))
     if not form.is_bound or not form.is_valid():
         return form, None, None
-    species = next(s for s in species_list if s.name == form.cleaned_data["species"])
+    row = rows[form.cleaned_data["species"]]
+    species = species_of_row(row)
     try:
-        prediction = predict(species, form.request())
+        prediction = cached_prediction(row, species, form.request())
     except ValueError as error:  # includes EngineLimitError: the request needs more J than the cap
         form.add_error(None, str(error))
         return form, species, None

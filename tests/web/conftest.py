@@ -54,6 +54,15 @@ BROKEN_ENTRIES = (
 )
 
 
+@pytest.fixture(autouse=True)
+def empty_cache():
+    """Each test starts with an empty cache: test databases hand out the same ids and versions again,
+    so a prediction cached by an earlier test could otherwise stand in for another catalogue's."""
+    from django.core.cache import cache
+
+    cache.clear()
+
+
 @pytest.fixture(scope="session")
 def demo_species():
     return load_catalogue(DEMO_CATALOGUE_PATH)

@@ -130,13 +130,12 @@ def test_unknown_species_is_404(viewer_client):
 
 
 def test_engine_refusal_is_shown_not_raised(viewer_client, monkeypatch):
-    from planner.catalogue.views import species_page
     from planner.engine import EngineLimitError
 
     def refuse(species, request):
         raise EngineLimitError("needs levels above J = 250")
 
-    monkeypatch.setattr(species_page, "predict", refuse)
+    monkeypatch.setattr("planner.catalogue.predictions.predict", refuse)
     response = _page(viewer_client, "SO2")
     assert response.status_code == 200
     assert "needs levels above J = 250" in response.content.decode()

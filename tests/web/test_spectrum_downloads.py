@@ -58,7 +58,7 @@ def test_download_refused_by_the_engine_names_the_request(viewer_client, demo_sp
     def refuse(species, request):
         raise ValueError("the distortion series has broken down at J=117")
 
-    monkeypatch.setattr("planner.spectra.views.predict", refuse)
+    monkeypatch.setattr("planner.catalogue.predictions.predict", refuse)
     response = viewer_client.get(reverse("spectra:spectrum_json"), page_query(demo_species[0].name))
     assert response.status_code == 400
     assert response.content.decode() == "request: the distortion series has broken down at J=117"

@@ -148,7 +148,7 @@ def test_engine_refusal_is_a_form_error_not_a_server_error(viewer_client, demo_s
     def refuse(species, request):
         raise EngineLimitError("this window needs J up to 400, above the cap of 250")
 
-    monkeypatch.setattr("planner.spectra.views.predict", refuse)
+    monkeypatch.setattr("planner.catalogue.predictions.predict", refuse)
     response = viewer_client.get(URL, page_query(demo_species[0].name))
     assert response.status_code == 200
     assert response.context["form"].non_field_errors() == ["this window needs J up to 400, above the cap of 250"]

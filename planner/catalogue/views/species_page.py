@@ -9,9 +9,10 @@ from planner.catalogue.conversion import species_of_row, with_constants
 from planner.catalogue.levels_plot import levels_data
 from planner.catalogue.models import Species as SpeciesRow
 from planner.catalogue.page_forms import SpeciesPageForm
+from planner.catalogue.predictions import cached_prediction, cached_result
 from planner.catalogue.revisions import Timeline
 from planner.catalogue.summary import constant_rows, state_derived
-from planner.engine import PredictionRequest, allowed_parameters, predict
+from planner.engine import PredictionRequest, allowed_parameters
 from planner.engine.derived import partition_function
 from planner.spectra.forms import DEFAULT_FMAX_MHZ, DEFAULT_FMIN_MHZ
 from planner.spectra.plot import plot_data
@@ -31,6 +32,12 @@ def _partition_rows(species, temperatures_k):
         except ValueError as error:  # EngineLimitError: the temperature needs levels past the engine's cap
             rows.append({"temperature_k": temperature, "q": None, "error": str(error)})
     return rows
+
+
+def _cached_partition_rows(row, species, temperatures_k):
+    # Each Q(T) climbs the J ladder: on a warm page it cost more than everything else together.
+    temperatures = tuple(float(t) for t in temperatures_k)
+    return cached_result(row, "partition-rows", temperatures, lambda: _partition_rows(species, temperatures))
 
 
 @needs(VIEW)
@@ -53,7 +60,7 @@ def species_page(request, pk: int):
         "species": species,
         "states": states,
         "page_form": page_form,
-        "partition_rows": _partition_rows(species, data.get("temperatures_k", [10.0, 75.0, 150.0, 300.0])),
+        "partition_rows": _cached_partition_rows(row, species, data.get("temperatures_k", [10.0, 75.0, 150.0, 300.0])),
         "levels": levels_data(species),
         "temperature_k": temperature_k,
         "can_edit": can_edit(request.user),
@@ -61,15 +68,15 @@ def species_page(request, pk: int):
         "parent_row": SpeciesRow.objects.filter(name=species.parent).first() if species.parent else None,
         "isotopologues": SpeciesRow.objects.filter(parent_name=species.name).order_by("name"),
     }
-    context |= _spectrum(species, temperature_k)
+    context |= _spectrum(row, species, temperature_k)
     return render(request, "catalogue/species.html", context)
 
 
-def _spectrum(species, temperature_k: float) -> dict:
-    """The stick spectrum over the default window, or the engine's reason for none."""
+def _spectrum(row, species, temperature_k: float) -> dict:
+    """The stick spectrum over the default window (cached like every prediction), or the engine's reason for none."""
     request = PredictionRequest(DEFAULT_FMIN_MHZ, DEFAULT_FMAX_MHZ, temperature_k, relative_floor=PAGE_RELATIVE_FLOOR)
     try:
-        prediction = predict(species, request)
+        prediction = cached_prediction(row, species, request)
     except ValueError as error:
         return {"spectrum_error": str(error), "plot": None, "spectrum_messages": []}
     records = prediction.records()
