@@ -19,7 +19,7 @@ which refuses it with a message next to the field (tests/web/test_upload_limits.
 
 from __future__ import annotations
 
-from planner.engine.request import ASYMMETRIC_J_CAP, CLOSED_FORM_J_CAP
+from planner.engine.request import CLOSED_FORM_J_CAP
 
 #: Highest upper window edge of the spectrum page and its downloads [MHz] (3 THz).  Pure rotational
 #: lines of the catalogue's molecules that microwave and mm-wave instruments reach lie far below it
@@ -42,13 +42,23 @@ MAX_PLAN_SETTINGS = 20_000
 #: lines (common practice, no source); the Jacobian and every Gauss–Newton step grow with it.
 MAX_FIT_LINES = 5000
 
-#: Highest J of an assigned line, by rotor kind: the engine's own caps, since the fit solves the
-#: levels of every J it is given and one J of an asymmetric top costs a (J+1)/2-sized eigen-solve.
+#: Gauss–Newton iterations a fit from the web may take (the engine's default, kept for
+#: `manage.py fit`, is 20).  A fit that has not converged in 10 was started too far from its
+#: solution, and the page says so; each iteration solves the levels of every J the lines name.
+FIT_MAX_ITERATIONS = 10
+
+#: Highest J of an assigned line fitted from the web, by rotor kind.  Closed-form rotors take the
+#: engine's own cap.  An asymmetric top's levels of one J cost an eigen-solve of (J+1)/2-sized Wang
+#: blocks, and every iteration solves each J the lines name: measured on the 2-core machine
+#: (2026-12-02), SO2 lines with random frequencies at every J up to 250 ran 50 s to the refusal
+#: (J 0–250 take 1.1 s per solve when the machine is quiet, 8.5 s when it is busy), while up to
+#: J = 150 a solve takes a seventh of that.  150 is past the J of most laboratory fits of
+#: asymmetric tops (common practice, no source); `manage.py fit` keeps the engine's cap of 250.
 FIT_J_CAPS = {
     "linear": CLOSED_FORM_J_CAP,
     "symmetric-prolate": CLOSED_FORM_J_CAP,
     "symmetric-oblate": CLOSED_FORM_J_CAP,
-    "asymmetric": ASYMMETRIC_J_CAP,
+    "asymmetric": 150,
 }
 
 #: Largest lines CSV, uploaded or pasted [bytes].  1 MB holds some 15 000 lines, more than

@@ -57,7 +57,7 @@ class FitForm(forms.Form):
         return cleaned
 
     def _check_j(self, cleaned: dict, field: str) -> None:
-        """Refuse lines above the engine's J cap before the fit solves their levels (planner/limits.py)."""
+        """Refuse lines above the web fit's J cap before the fit solves their levels (planner/limits.py)."""
         row = cleaned.get("species")
         cap = FIT_J_CAPS.get(row.rotor) if row is not None else None
         if cap is None:
@@ -66,7 +66,7 @@ class FitForm(forms.Form):
         if high:
             self.add_error(
                 field,
-                f"line {high[0]} has J above {cap}, the engine's limit for a {row.rotor} rotor"
+                f"line {high[0]} has J above {cap}, the most a fit on this page takes for a {row.rotor} rotor"
                 + (f" ({len(high)} such lines)" if len(high) > 1 else "")
                 + ".",
             )

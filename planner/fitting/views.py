@@ -14,6 +14,7 @@ from planner.catalogue.models import Species as SpeciesRow
 from planner.catalogue.store import EditConflict, Stamp, StoreError, update_species
 from planner.catalogue_file import dump_catalogue
 from planner.engine.fitting import fit_constants
+from planner.limits import FIT_MAX_ITERATIONS
 
 from .forms import FitForm
 from .geometry import BUILDERS, r0_structure
@@ -32,7 +33,9 @@ def fit_page(request):
         row = form.cleaned_data["species"]
         species = species_of_row(row)
         try:
-            result = fit_constants(species, form.cleaned_data["lines"], form.cleaned_data["vary"])
+            result = fit_constants(
+                species, form.cleaned_data["lines"], form.cleaned_data["vary"], max_iterations=FIT_MAX_ITERATIONS
+            )
         except (ValueError, RuntimeError) as error:
             form.add_error(None, f"Cannot fit: {error}")
         else:

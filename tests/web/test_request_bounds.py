@@ -17,7 +17,7 @@ from planner.catalogue.models import Species as SpeciesRow
 from planner.catalogue.page_forms import MAX_TEMPERATURES
 from planner.engine.request import ASYMMETRIC_J_CAP, CLOSED_FORM_J_CAP, MAX_TEMPERATURE_K
 from planner.fitting.models import FitRun
-from planner.limits import MAX_FREQUENCY_MHZ, MAX_PLAN_SETTINGS, MAX_PLAN_SPAN_MHZ
+from planner.limits import FIT_J_CAPS, FIT_MAX_ITERATIONS, MAX_FREQUENCY_MHZ, MAX_PLAN_SETTINGS, MAX_PLAN_SPAN_MHZ
 from planner.planning.forms import MAX_SPECIES
 from planner.planning.models import Instrument, SavedPlan
 from tests.fitting.test_fit_command import CO_LINES
@@ -209,13 +209,34 @@ def _line(j_up: int, j_lo: int, ka: str = "", kc: str = "") -> str:
 
 @pytest.mark.parametrize(
     "species, cap, ka",
-    [("CO", CLOSED_FORM_J_CAP, ""), ("SO2", ASYMMETRIC_J_CAP, "0")],
+    [("CO", FIT_J_CAPS["linear"], ""), ("SO2", FIT_J_CAPS["asymmetric"], "0")],
 )
 def test_fit_lines_above_the_j_cap_are_refused_before_solving(editor_client, no_fit, species, cap, ka):
     row = SpeciesRow.objects.get(name=species)
     lines = CO_LINES.splitlines()[0] + "\n" + _line(cap + 1, cap, ka, ka) + _line(cap + 2, cap + 1, ka, ka)
     response = editor_client.post(reverse("fitting:fit"), {"species": row.pk, "vary": "B", "lines_text": lines})
     assert response.status_code == 400
-    message = f"line 1 has J above {cap}, the engine's limit for a {row.rotor} rotor (2 such lines)."
+    message = f"line 1 has J above {cap}, the most a fit on this page takes for a {row.rotor} rotor (2 such lines)."
     assert message in _errors(response, "lines_text")
+    assert not FitRun.objects.exists()
+
+
+def test_fit_caps_agree_with_the_engine():
+    assert FIT_J_CAPS["linear"] == CLOSED_FORM_J_CAP
+    assert FIT_J_CAPS["asymmetric"] <= ASYMMETRIC_J_CAP
+
+
+def test_a_fit_from_the_page_stops_after_the_iteration_cap(editor_client, monkeypatch):
+    seen = {}
+
+    def fit(species, lines, vary, **options):
+        seen.update(options)
+        raise RuntimeError(f"the fit did not converge in {options['max_iterations']} iterations")
+
+    monkeypatch.setattr("planner.fitting.views.fit_constants", fit)
+    row = SpeciesRow.objects.get(name="CO")
+    response = editor_client.post(reverse("fitting:fit"), {"species": row.pk, "vary": "B", "lines_text": CO_LINES})
+    assert response.status_code == 400
+    assert seen == {"max_iterations": FIT_MAX_ITERATIONS}
+    assert f"Cannot fit: the fit did not converge in {FIT_MAX_ITERATIONS} iterations" in response.content.decode()
     assert not FitRun.objects.exists()
