@@ -5,7 +5,7 @@ VENV := .venv
 BIN := $(VENV)/bin
 STAMP := $(VENV)/.requirements-installed
 
-.PHONY: run test lint bench migrate setup
+.PHONY: run test lint bench load migrate setup fuzz
 
 $(BIN)/python:
 	$(PYTHON) -m venv $(VENV)
@@ -36,3 +36,13 @@ lint: setup
 bench: migrate
 	$(BIN)/python -m planner.engine.benchmark
 	$(BIN)/python manage.py bench_plan
+
+# 20 clients, 2000 requests against a temporary production server (gunicorn on a free 127.0.0.1 port,
+# its own SQLite file and static files, removed afterwards); prints the figures, fails on any error.
+load: setup
+	$(BIN)/python manage.py load_test
+
+# A longer schemathesis run of the whole API against a live test server (FUZZ_EXAMPLES per operation and phase).
+FUZZ_EXAMPLES ?= 100
+fuzz: migrate
+	LINECAST_FUZZ_EXAMPLES=$(FUZZ_EXAMPLES) $(BIN)/python -m pytest tests/api/test_fuzz.py -q

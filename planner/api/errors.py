@@ -67,8 +67,13 @@ def form_error(errors: dict[str, list[str]]) -> ApiError:
     """A 400 from a page form's errors, already under the API's input names; "__all__" is the message only."""
     fields = {name: [str(p) for p in problems] for name, problems in errors.items() if name != "__all__"}
     general = [str(p) for p in errors.get("__all__", [])]
-    listed = [f"{name}: {' '.join(problems)}" for name, problems in fields.items()]
-    return ApiError(400, " ".join(general + listed) or "Invalid input.", fields)
+    parts = general + ([listed(fields)] if fields else [])
+    return ApiError(400, "; ".join(parts) or "Invalid input.", fields)
+
+
+def listed(fields: dict[str, list[str]]) -> str:
+    """'fmin_mhz: problem; species[0].amount: problem' for a message."""
+    return "; ".join(f"{name}: {' '.join(problems)}" for name, problems in fields.items())
 
 
 def error_response(status: int, message: str, fields=None, code: str | None = None) -> JsonResponse:
@@ -89,8 +94,7 @@ def install_error_handlers(api) -> None:
     @handle(ValidationError)
     def validation_error(request, exc):
         fields = validation_fields(exc.errors)
-        listed = "; ".join(f"{name}: {' '.join(problems)}" for name, problems in fields.items())
-        return error_response(400, f"Invalid input: {listed}" if listed else "Invalid input.", fields)
+        return error_response(400, f"Invalid input: {listed(fields)}" if fields else "Invalid input.", fields)
 
     @handle(AuthenticationError)
     def not_authenticated(request, exc):
@@ -115,12 +119,8 @@ def install_error_handlers(api) -> None:
 
     @handle(EngineLimitError)
     def engine_limit(request, exc):
+        # A well-formed request the engine will not compute (levels past its J cap): its message says why.
         return error_response(422, str(exc))
-
-    @handle(ValueError)
-    def engine_refusal(request, exc):
-        # The engine and the catalogue name the problem in their ValueErrors (window, J cap, levels).
-        return error_response(400, str(exc))
 
     @handle(Exception)
     def server_error(request, exc):

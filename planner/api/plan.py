@@ -6,6 +6,7 @@ from django.http import JsonResponse
 from ninja import Router
 
 from planner.catalogue.models import Species as SpeciesRow
+from planner.engine import EngineLimitError
 from planner.planning.compute import compute_plan
 from planner.planning.forms import PlanForm
 from planner.planning.models import Instrument
@@ -31,7 +32,12 @@ def plan_slot(request, body: PlanIn):
     form = PlanForm(_form_data(body, {name: pk for pk, name, _ in catalogue}), species=catalogue)
     if not form.is_valid():
         raise _form_error(form, body)
-    document = compute_plan(form.inputs())  # ValueErrors (engine refusals) answer 400 through errors.py
+    try:
+        document = compute_plan(form.inputs())
+    except EngineLimitError:
+        raise  # 422 (errors.py)
+    except ValueError as error:  # PlanInputError and the engine's refusals name what is wrong, as on the page
+        raise ApiError(400, f"Cannot plan: {error}") from error
     return JsonResponse(document, json_dumps_params={"allow_nan": False})
 
 
