@@ -129,7 +129,12 @@ LOGIN_URL = "login"
 LOGIN_REDIRECT_URL = "catalogue:list"
 LOGOUT_REDIRECT_URL = "login"
 
-# Uploads (catalogue files) are read into memory up to this size and refused above it.
+# Form data (pasted lines, say) above DATA_UPLOAD_MAX_MEMORY_SIZE is refused by Django with a bare 400;
+# uploaded files up to FILE_UPLOAD_MAX_MEMORY_SIZE stay in memory, bigger ones go to a temporary file.
+# Both stay above the form caps of planner/limits.py (2 MB catalogue, 1 MB lines), so an accepted
+# file never touches the disk and a bigger one reaches its form, which refuses it with a message next
+# to the field (tests/web/test_upload_limits.py).  The web server in front should cap whole request
+# bodies (e.g. 10 MB), since Django spools any size of file to disk before the form sees it.
 DATA_UPLOAD_MAX_MEMORY_SIZE = 5 * 1024 * 1024
 FILE_UPLOAD_MAX_MEMORY_SIZE = 5 * 1024 * 1024
 
