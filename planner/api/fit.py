@@ -15,6 +15,7 @@ from planner.engine import UndeterminedError, fit_constants
 from planner.fitting.forms import FitForm
 from planner.fitting.lines_file import REQUIRED_COLUMNS
 from planner.fitting.report import fit_document
+from planner.limits import FIT_MAX_ITERATIONS
 
 from .errors import ERROR_RESPONSES, ApiError, form_error, invalid
 from .schemas import FitIn, FitOut
@@ -31,9 +32,10 @@ _LINE_PROBLEM = re.compile(r"^(lines\[\d+\])")
 def fit_lines(request, body: FitIn):
     """Fit the constants named in `vary` to assigned lines given as `lines` or as the lines CSV text.
 
-    Lines are read by the fit page's own rules (planner/fitting/forms.py, lines_file.py), the J cap
-    included.  The answer is the fit page's report: `constants` (`value_mhz`, `sigma_mhz`),
-    `covariance_mhz2`, `correlation`, `residuals` (`obs_minus_calc_mhz`, outliers, blends),
+    Lines are read by the fit page's own rules (planner/fitting/forms.py, lines_file.py), its J cap
+    and iteration limit (planner/limits.py) included.  The answer is the fit page's report:
+    `constants` (`value_mhz`, `sigma_mhz`), `covariance_mhz2`, `correlation`,
+    `residuals` (`obs_minus_calc_mhz`, outliers, blends),
     `weighted_rms`, `reduced_chi2` and the derived `structure`; `species_id` and `species_version`
     say which catalogue version was fitted.  A fit that does not converge answers 422.
     """
@@ -47,7 +49,9 @@ def fit_lines(request, body: FitIn):
         raise form_error(_api_names(form.errors, field))
     species = species_of_row(row)
     try:
-        result = fit_constants(species, form.cleaned_data["lines"], form.cleaned_data["vary"])
+        result = fit_constants(
+            species, form.cleaned_data["lines"], form.cleaned_data["vary"], max_iterations=FIT_MAX_ITERATIONS
+        )
     except ValueError as error:  # the engine names what is wrong: a constant, a line, a level
         raise _fit_refusal(str(error), field, isinstance(error, UndeterminedError)) from error
     except RuntimeError as error:  # no convergence: well-formed input that this fit cannot settle
