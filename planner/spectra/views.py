@@ -74,11 +74,14 @@ def _prediction_from_query(request) -> tuple[SpectrumForm, Species | None, Predi
     Returns the form (carrying any errors), the chosen species and the
     prediction, the last two None when there is nothing to show.
     """
-    rows = {row.name: row for row in with_constants(SpeciesRow.objects.all())}
-    form = SpectrumForm(request.GET or None, species_names=list(rows))
+    form = SpectrumForm(request.GET or None, species_names=list(SpeciesRow.objects.values_list("name", flat=True)))
     if not form.is_bound or not form.is_valid():
         return form, None, None
-    row = rows[form.cleaned_data["species"]]
+    # Only the chosen species' constants are read: the form needs just the names.
+    row = with_constants(SpeciesRow.objects.filter(name=form.cleaned_data["species"])).first()
+    if row is None:  # deleted between the two queries
+        form.add_error("species", "This species has just been deleted from the catalogue.")
+        return form, None, None
     species = species_of_row(row)
     try:
         prediction = cached_prediction(row, species, form.request())

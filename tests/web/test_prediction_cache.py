@@ -125,3 +125,13 @@ def test_species_page_partition_functions_are_cached_too(viewer_client, monkeypa
     assert first.context["partition_rows"] == second.context["partition_rows"]
     viewer_client.get(url, {"temperatures_k": "20, 150"})
     assert calls == [20.0, 300.0, 20.0, 150.0]
+
+
+def test_spectrum_page_reads_only_the_chosen_species_constants(
+    viewer_client, demo_with_lines, page_query, django_assert_num_queries
+):
+    # session, user, two permission queries, the names; then the chosen species, its states, constants
+    # and covariances: the count does not grow with the size of the catalogue.
+    with django_assert_num_queries(9):
+        response = viewer_client.get(reverse("spectra:spectrum"), page_query(_name_with_lines(demo_with_lines)))
+    assert response.status_code == 200

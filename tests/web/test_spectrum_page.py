@@ -32,8 +32,8 @@ CH3CN_ENTRY = {
 
 
 def test_first_visit_shows_the_form_and_no_prediction(viewer_client, demo_species, django_assert_num_queries):
-    # session, user, its two permission queries; then species, states, constants, covariances (not per species)
-    with django_assert_num_queries(8):
+    # session, user, its two permission queries; then the species names (constants only once one is chosen)
+    with django_assert_num_queries(5):
         response = viewer_client.get(URL)
     assert response.status_code == 200
     html = response.content.decode()
