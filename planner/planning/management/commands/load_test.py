@@ -54,9 +54,11 @@ class Command(BaseCommand):
         )
         parser.add_argument("--seed", type=int, default=7, help="seed of the request mix (default 7)")
         parser.add_argument(
-            "--workers", type=int, default=3, help="gunicorn workers of the temporary server (default 3)"
+            "--workers", type=int, default=4, help="gunicorn workers of the temporary server (default 4)"
         )
-        parser.add_argument("--threads", type=int, default=2, help="threads per gunicorn worker (default 2)")
+        parser.add_argument(
+            "--threads", type=int, default=1, help="threads per gunicorn worker (default 1: sync workers)"
+        )
         parser.add_argument(
             "--prepare", action="store_true", help="only create the load-test account and a saved plan here"
         )
