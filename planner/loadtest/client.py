@@ -73,7 +73,8 @@ class Client:
 
     def request(self, method: str, path: str, form: dict | None = None) -> Response:
         body = urlencode(form).encode() if form is not None else None
-        headers = {"Host": f"{self.host}:{self.port}", "User-Agent": "linecast-load-test"}
+        host = f"[{self.host}]" if ":" in self.host else self.host  # an IPv6 literal needs brackets
+        headers = {"Host": f"{host}:{self.port}", "User-Agent": "linecast-load-test"}
         if body is not None:
             headers["Content-Type"] = "application/x-www-form-urlencoded"
         if self.cookies:

@@ -68,8 +68,7 @@ def run_load(plan: LoadPlan, say=print) -> Report:
     clients = [Client(plan.host, plan.port) for _ in range(plan.clients)]
     try:
         with ThreadPoolExecutor(max_workers=plan.clients) as pool:
-            for client in pool.map(lambda c: c.log_in(plan.username, plan.password) or c, clients):
-                pass
+            list(pool.map(lambda client: client.log_in(plan.username, plan.password), clients))  # raises a failure
             # Every client asks for every distinct page once (rotated, so they do not all start on the
             # same one): each server process it is connected to then holds them in its cache.
             warm_deadline = time.monotonic() + plan.max_seconds
