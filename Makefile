@@ -4,6 +4,9 @@ PYTHON ?= python3.11
 VENV := .venv
 BIN := $(VENV)/bin
 STAMP := $(VENV)/.requirements-installed
+# The engine solves many small matrices: OpenBLAS's own threads only wait for each other there
+# (3-6x slower eigen-solves measured with several processes on the 2-core machine). Override to taste.
+export OPENBLAS_NUM_THREADS ?= 1
 
 .PHONY: run test lint bench load migrate setup fuzz
 
