@@ -8,7 +8,9 @@ so tests can pass a plain dict instead of patching ``os.environ``.
 
 from __future__ import annotations
 
+import hashlib
 from collections.abc import Mapping
+from pathlib import Path
 from urllib.parse import urlsplit
 
 from django.core.exceptions import ImproperlyConfigured
@@ -109,7 +111,9 @@ def deployment_settings(environ: Mapping[str, str]) -> dict:
 
 
 #: Cache of one process's memory: what development and a single-process server use.
-LOCAL_MEMORY_CACHE = {"BACKEND": "django.core.cache.backends.locmem.LocMemCache", "OPTIONS": {"MAX_ENTRIES": 2000}}
+#: 500 entries: a wide-window prediction of a large asymmetric top pickles to about 1 MB, and each
+#: gunicorn worker keeps its own copy of this cache.
+LOCAL_MEMORY_CACHE = {"BACKEND": "django.core.cache.backends.locmem.LocMemCache", "OPTIONS": {"MAX_ENTRIES": 500}}
 REDIS_SCHEMES = ("redis", "rediss")
 
 
@@ -147,3 +151,12 @@ def cache_settings(environ: Mapping[str, str], name: str = "LINECAST_CACHE_URL")
             "KEY_PREFIX": "linecast",
         }
     }
+
+
+def code_fingerprint(package_dir: Path) -> str:
+    """Short hash of every Python file below ``package_dir``: changes whenever the code does."""
+    digest = hashlib.sha256()
+    for path in sorted(package_dir.rglob("*.py")):
+        digest.update(str(path.relative_to(package_dir)).encode())
+        digest.update(path.read_bytes())
+    return digest.hexdigest()[:12]

@@ -11,7 +11,7 @@ from pathlib import Path
 
 import dj_database_url
 
-from planner.envconfig import cache_settings, deployment_settings, env_bool, env_int
+from planner.envconfig import cache_settings, code_fingerprint, deployment_settings, env_bool, env_int
 
 BASE_DIR = Path(__file__).resolve().parent.parent
 ENVIRON = os.environ
@@ -123,6 +123,10 @@ AUTH_PASSWORD_VALIDATORS = [
 # Predictions and plans are cached by species version and conditions (planner/catalogue/predictions.py), in
 # each process's memory unless LINECAST_CACHE_URL names a redis server that all gunicorn workers share.
 CACHES = cache_settings(ENVIRON)
+# Cached predictions and plans are keyed by species version, not by program: a fingerprint of the
+# code in the key prefix makes an upgraded server (or a redis cache that outlived one) start afresh.
+CODE_FINGERPRINT = code_fingerprint(BASE_DIR / "planner")
+CACHES["default"]["KEY_PREFIX"] = f"{CACHES['default'].get('KEY_PREFIX', 'linecast')}-{CODE_FINGERPRINT}"
 
 # Every page needs a logged-in member of the group (see planner/catalogue/roles.py).
 LOGIN_URL = "login"
