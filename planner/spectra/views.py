@@ -12,11 +12,13 @@ import re
 from django.core.exceptions import NON_FIELD_ERRORS
 from django.http import HttpResponse, HttpResponseBadRequest, JsonResponse
 from django.shortcuts import render
+from django.template.loader import render_to_string
+from django.utils.safestring import mark_safe
 
 from planner.catalogue.access import VIEW, needs
 from planner.catalogue.conversion import species_of_row, with_constants
 from planner.catalogue.models import Species as SpeciesRow
-from planner.catalogue.predictions import cached_prediction
+from planner.catalogue.predictions import cached_prediction, cached_result
 from planner.engine import Prediction, Species
 from planner.spectra.exports import prediction_csv, prediction_json
 from planner.spectra.forms import SpectrumForm
@@ -29,15 +31,31 @@ def spectrum_page(request):
     form, species, prediction = _prediction_from_query(request)
     context = {"form": form, "species": species, "prediction": prediction}
     if prediction is not None:
-        records = prediction.records()
         context |= {
             "partition_function": prediction.partition_function.get(species.name),
             "j_max": prediction.j_max.get(species.name),
-            "table": line_table(species, records),
-            "plot": plot_data(records, species.rotor),
+            "lines": _rendered_lines(form.species_row, species, prediction, form.request()),
             "download_query": request.GET.urlencode(),
         }
     return render(request, "spectra/spectrum.html", context)
+
+
+def _rendered_lines(row: SpeciesRow, species: Species, prediction: Prediction, conditions) -> dict:
+    """The plot data and line table as HTML, with the line count: cached like the prediction.
+
+    Rendering the 500-row table was the largest cost of a page whose
+    prediction was already cached (profile of the load test, 2026-12-02).
+    """
+
+    def render_lines() -> dict:
+        records = prediction.records()
+        table = line_table(species, records)
+        html = render_to_string("spectra/_lines.html", {"table": table, "plot": plot_data(records, species.rotor)})
+        return {"html": html, "total_lines": table.total_lines, "has_rows": bool(table.rows)}
+
+    lines = cached_result(row, "spectrum-lines-html", conditions, render_lines)
+    # The fragment is the output of an auto-escaping template, so it is safe to insert as it is.
+    return lines | {"html": mark_safe(lines["html"])}
 
 
 @needs(VIEW)
@@ -83,6 +101,7 @@ def _prediction_from_query(request) -> tuple[SpectrumForm, Species | None, Predi
         form.add_error("species", "This species has just been deleted from the catalogue.")
         return form, None, None
     species = species_of_row(row)
+    form.species_row = row
     try:
         prediction = cached_prediction(row, species, form.request())
     except ValueError as error:  # includes EngineLimitError: the request needs more J than the cap

@@ -14,6 +14,7 @@ from planner.catalogue.predictions import prediction_key
 from planner.catalogue.store import Stamp, update_species
 from planner.engine import PredictionRequest, predict
 from planner.engine.derived import partition_function
+from planner.spectra.table import line_table
 
 
 @pytest.fixture
@@ -83,6 +84,30 @@ def test_an_edit_makes_the_next_page_predict_again(viewer_client, demo_with_line
     update_species(row, species_of_row(row), Stamp(None, "test edit"), expected_version=row.version)
     viewer_client.get(reverse("spectra:spectrum"), query)
     assert len(engine_calls) == 2
+
+
+def test_the_line_table_is_rendered_once_per_species_version(
+    viewer_client, demo_with_lines, page_query, monkeypatch, parse_table
+):
+    from planner.spectra import views
+
+    tables = []
+
+    def counting_line_table(species, records):
+        tables.append(species.name)
+        return line_table(species, records)
+
+    monkeypatch.setattr(views, "line_table", counting_line_table)
+    name = _name_with_lines(demo_with_lines)
+    query = page_query(name)
+    first = viewer_client.get(reverse("spectra:spectrum"), query).content.decode()
+    second = viewer_client.get(reverse("spectra:spectrum"), query).content.decode()
+    assert tables == [name]
+    assert parse_table(first) == parse_table(second)
+    row = SpeciesRow.objects.get(name=name)
+    update_species(row, species_of_row(row), Stamp(None, "test edit"), expected_version=row.version)
+    viewer_client.get(reverse("spectra:spectrum"), query)
+    assert tables == [name, name]
 
 
 def test_key_names_species_version_and_every_condition():
